@@ -12,6 +12,7 @@ __all__ = [
     "DesignFileError",
     "LocationError",
     "PlumbrodError",
+    "UsageError",
 ]
 
 
@@ -74,3 +75,20 @@ class LocationError(PlumbrodError, ValueError):
 
     def __str__(self) -> str:
         return self.detail
+
+
+class UsageError(PlumbrodError, ValueError):
+    """A command-line value that cannot be used (a negative length, an unknown material).
+
+    Attributes: ``option`` (the option as typed, e.g. ``--od``), ``problem`` and ``fix``.
+    """
+
+    def __init__(self, option: str, problem: str, fix: str = "") -> None:
+        self.option = option
+        self.problem = problem
+        self.fix = fix
+        super().__init__(str(self))
+
+    def __str__(self) -> str:
+        tail = f"; {self.fix}" if self.fix else ""
+        return f"{self.option}: {self.problem}{tail}"

@@ -1,0 +1,10 @@
+"""One module per command-line verb.
+
+Each module exposes ``register(subparsers)``, which adds its parser and sets
+``handler=run`` on it, and ``run(args) -> int`` returning the exit code.  Modules keep
+their top-level imports light (argparse and the standard library); heavy imports go
+inside ``run`` so that ``plumbrod --help`` and ``plumbrod check`` start fast.
+"""
+
+COMMAND_MODULES: tuple[str, ...] = ("check", "sweep", "column", "size", "new", "demo")
+"""Verbs in the order ``--help`` lists them; a module missing here is not offered."""
