@@ -8,10 +8,12 @@ from __future__ import annotations
 
 import argparse
 import importlib
+import os
 import sys
 from collections.abc import Sequence
 
 from plumbrod import __version__
+from plumbrod.cautions import CAUTION
 from plumbrod.commands import COMMAND_MODULES
 from plumbrod.errors import AssemblyError, PlumbrodError
 
@@ -21,13 +23,6 @@ EXIT_OK = 0
 EXIT_FAIL = 1
 EXIT_BAD_INPUT = 2
 
-CAUTION = (
-    "Caution: the analysis is idealised (pin-jointed rods, rigid rockers unless a "
-    "stiffness is given, quasi-static loads, no fatigue). It does not replace a "
-    "qualified engineer's sign-off, physical proof-load tests of the parts, or the "
-    "technical regulations of your series; many series ban aero devices that move with "
-    "the suspension."
-)
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -63,6 +58,11 @@ def main(argv: Sequence[str] | None = None) -> int:
         return EXIT_BAD_INPUT
     try:
         return int(handler(args))
+    except BrokenPipeError:
+        # the reader (e.g. `| head`) went away: stop quietly, like other commands do
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+        return EXIT_OK
     except AssemblyError as exc:
         print(f"plumbrod: fail: {exc}", file=sys.stderr)
         return EXIT_FAIL

@@ -335,7 +335,7 @@ class Linkage:
         """Points as homogeneous columns (G, 4, np) and the gather indices of their body."""
         if "homogeneous" not in self._cache:
             pts = self.points
-            ones = np.ones(pts.shape[:2] + (1,))
+            ones = np.ones((*pts.shape[:2], 1))
             cols = np.swapaxes(np.concatenate((pts, ones), axis=-1), 1, 2).copy()
             rows = 3 * self.point_body[:, None] + np.arange(3)[None, :]
             which = np.broadcast_to(np.arange(len(self.point_body))[:, None], rows.shape)

@@ -41,7 +41,8 @@ def hinged_rod_ends(link: Linkage) -> tuple[NDArray[np.intp], NDArray[np.intp], 
 def joint_labels(link: Linkage) -> list[tuple[str, str]]:
     """(rod name, body name) of each rod end on a hinged body."""
     rods, here, _ = hinged_rod_ends(link)
-    return [(link.rod_names[r], link.body_names[link.point_body[p]]) for r, p in zip(rods, here)]
+    return [(link.rod_names[r], link.body_names[link.point_body[p]])
+            for r, p in zip(rods, here, strict=True)]
 
 
 def _geometry(link: Linkage, kin: Kinematics) -> tuple[Array, Array, Array, Array]:

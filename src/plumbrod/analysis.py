@@ -1,0 +1,66 @@
+"""The whole analysis of one design: location, routes, sweeps and their figures.
+
+This is the one place that runs the pipeline in order::
+
+    design file -> Design -> Linkage -> mobility -> routes -> sweeps -> figures
+
+Later stages (statics, structure, clearance) read the :class:`Analysis` this returns.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from plumbrod.errors import LocationError
+from plumbrod.figures import SweepFigures, sweep_figures
+from plumbrod.linkage import Linkage, build_linkage
+from plumbrod.mobility import Mobility, analyse_mobility
+from plumbrod.model import Design
+from plumbrod.routes import RouteMap, find_routes
+from plumbrod.sweeps import SweepResult, run_sweeps
+
+__all__ = ["Analysis", "analyse"]
+
+
+@dataclass(frozen=True)
+class Analysis:
+    """Everything the checks and reports need about one design."""
+
+    design: Design
+    link: Linkage
+    mobility: Mobility
+    routes: RouteMap
+    sweeps: dict[str, SweepResult]
+    figures: dict[str, SweepFigures]
+
+
+def locate(design: Design) -> tuple[Linkage, Mobility, RouteMap]:
+    """Build the linkage and make sure every body is located and a route exists.
+
+    Raises LocationError naming the free motion, or saying that no route reaches a
+    corner.  Redundant members are allowed (see ``Mobility.redundant``).
+    """
+    link = build_linkage(design)
+    mobility = analyse_mobility(link)
+    if mobility.free_motions:
+        first = mobility.free_motions[0]
+        more = len(mobility.free_motions) - 1
+        tail = f" (and {more} more free motion{'s' if more > 1 else ''})" if more else ""
+        raise LocationError(first.split("'")[1], "free",
+                            f"{design.source}: not exactly located: {first}{tail}")
+    routes = find_routes(design)
+    for element in design.elements:
+        if not routes.for_element(element.name):
+            raise LocationError(element.name, "free",
+                                f"{design.source}: element '{element.name}' has no route to "
+                                "a corner: every rod from it ends on the chassis; join one "
+                                "of its pickups to a rocker, wishbone or upright")
+    return link, mobility, routes
+
+
+def analyse(design: Design) -> Analysis:
+    """Locate, solve every sweep and compute the kinematic figures."""
+    link, mobility, routes = locate(design)
+    sweeps = run_sweeps(link, design.sweeps)
+    figures = {name: sweep_figures(link, routes, res) for name, res in sweeps.items()}
+    return Analysis(design, link, mobility, routes, sweeps, figures)
