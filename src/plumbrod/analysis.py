@@ -3,8 +3,9 @@
 This is the one place that runs the pipeline in order::
 
     design file -> Design -> Linkage -> mobility -> routes -> sweeps -> figures
+                                                         -> members, loads -> statics
 
-Later stages (statics, structure, clearance) read the :class:`Analysis` this returns.
+Later stages (structure, clearance) read the :class:`Analysis` this returns.
 """
 
 from __future__ import annotations
@@ -14,9 +15,12 @@ from dataclasses import dataclass
 from plumbrod.errors import LocationError
 from plumbrod.figures import SweepFigures, sweep_figures
 from plumbrod.linkage import Linkage, build_linkage
+from plumbrod.loads import AppliedLoads, applied_loads, design_load_cases
+from plumbrod.members import Member, resolve_members
 from plumbrod.mobility import Mobility, analyse_mobility
 from plumbrod.model import Design
 from plumbrod.routes import RouteMap, find_routes
+from plumbrod.statics import Statics, solve_statics
 from plumbrod.sweeps import SweepResult, run_sweeps
 
 __all__ = ["Analysis", "analyse"]
@@ -32,6 +36,10 @@ class Analysis:
     routes: RouteMap
     sweeps: dict[str, SweepResult]
     figures: dict[str, SweepFigures]
+    members: dict[str, Member]
+    loads: AppliedLoads | None
+    """None when the design has no load case (no aero data or top speed)."""
+    statics: dict[str, Statics]
 
 
 def locate(design: Design) -> tuple[Linkage, Mobility, RouteMap]:
@@ -59,8 +67,13 @@ def locate(design: Design) -> tuple[Linkage, Mobility, RouteMap]:
 
 
 def analyse(design: Design) -> Analysis:
-    """Locate, solve every sweep and compute the kinematic figures."""
+    """Locate, solve every sweep, compute the kinematic figures and the statics."""
+    members = resolve_members(design)
     link, mobility, routes = locate(design)
     sweeps = run_sweeps(link, design.sweeps)
     figures = {name: sweep_figures(link, routes, res) for name, res in sweeps.items()}
-    return Analysis(design, link, mobility, routes, sweeps, figures)
+    cases = design_load_cases(design)
+    loads = applied_loads(design, link, members, routes, cases) if cases else None
+    statics = {} if loads is None else {
+        name: solve_statics(link, routes, members, loads, res) for name, res in sweeps.items()}
+    return Analysis(design, link, mobility, routes, sweeps, figures, members, loads, statics)

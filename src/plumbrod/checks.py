@@ -23,13 +23,14 @@ WARN_FRACTION = 0.8
 
 @dataclass(frozen=True)
 class CheckResult:
-    """One check's verdict; ``limit`` is a number or a [low, high] pair."""
+    """One check's verdict; ``limit`` is a number, a [low, high] pair or None (no limit
+    applies, the value is for information)."""
 
     id: str
     title: str
     status: str
     value: float | None
-    limit: float | tuple[float, float]
+    limit: float | tuple[float, float] | None
     unit: str
     where: str
     detail: str = ""
@@ -50,6 +51,14 @@ def status_of(used: float) -> str:
 
 def _pose(analysis: Analysis, sweep: str, index: int) -> str:
     return f"sweep '{sweep}' at {analysis.sweeps[sweep].spec.describe(index)}"
+
+
+def _no_loads(check_id: str, title: str, limit: float | tuple[float, float] | None,
+              unit: str) -> CheckResult:
+    return CheckResult(check_id, title, "warn", None, limit, unit,
+                       "not computed: no load case",
+                       "give [design] top_speed_kmh with [elements.<name>.aero], or "
+                       "[load_cases]")
 
 
 def check_route_ratio(analysis: Analysis) -> CheckResult:
@@ -76,20 +85,33 @@ def check_route_ratio(analysis: Analysis) -> CheckResult:
 
 def check_line_of_action(analysis: Analysis) -> CheckResult:
     limit = analysis.design.limits.line_of_action_deg
-    worst = (-1.0, "", "", 0)
+    worst = (-1.0, "", "", 0, "")
     for sweep, fig in analysis.figures.items():
         for rod, angle in fig.line_of_action_deg.items():
             i = int(np.argmax(angle))
             if angle[i] > worst[0]:
-                worst = (float(angle[i]), rod, sweep, i)
-    title = "Line of action of route rods from vertical"
+                worst = (float(angle[i]), f"rod '{rod}' ({_rod_role(analysis, rod)})", sweep,
+                         i, "")
+    resultant = -1.0
+    for sweep, st in analysis.statics.items():
+        for route, force in st.upright_force_N.items():
+            size = np.linalg.norm(force, axis=-1)
+            cos = np.abs(force[..., 2]) / np.where(size > 0, size, 1.0)
+            angle = np.where(size > 1e-9, np.degrees(np.arccos(np.clip(cos, 0.0, 1.0))), 0.0)
+            b, k = np.unravel_index(int(np.argmax(angle)), angle.shape)
+            resultant = max(resultant, float(angle[b, k]))
+            if angle[b, k] > worst[0]:
+                worst = (float(angle[b, k]), f"resultant force of route '{route}' on its corner",
+                         sweep, int(b), f", load case '{st.cases[k]}'")
+    title = "Line of action from vertical (route rods and the force on each upright)"
     if worst[0] < 0:
         return CheckResult("line-of-action", title, "warn", None, limit, "deg",
                            "not computed: no sweep ran", "")
-    value, rod, sweep, i = worst
-    role = _rod_role(analysis, rod)
+    value, what, sweep, i, case = worst
+    detail = (f"largest angle of a resultant force on a corner {resultant:.2f} deg"
+              if resultant >= 0 else "")
     return CheckResult("line-of-action", title, status_of(value / limit), value, limit, "deg",
-                       f"rod '{rod}' ({role}) in {_pose(analysis, sweep, i)}")
+                       f"{what} in {_pose(analysis, sweep, i)}{case}", detail)
 
 
 def _rod_role(analysis: Analysis, rod: str) -> str:
@@ -161,6 +183,105 @@ def check_ride_height(analysis: Analysis) -> CheckResult:
                        "; ".join(details))
 
 
+def check_member_force(analysis: Analysis) -> CheckResult:
+    title = "Member forces (largest tension and compression; rod-end rating)"
+    if not analysis.statics:
+        return _no_loads("member-force", title, None, "N")
+    names = [r.name for r in analysis.design.rods]
+    index = [analysis.link.rod_names.index(n) for n in names]
+    worst_t = (0.0, "", "", 0, 0)
+    worst_c = (0.0, "", "", 0, 0)
+    worst_rated = (-1.0, "", "", 0, 0, 0.0)
+    for sweep, st in analysis.statics.items():
+        forces = st.rod_force_N[..., index]  # (B, K, n)
+        b, k, r = np.unravel_index(int(np.argmax(forces)), forces.shape)
+        if forces[b, k, r] > worst_t[0]:
+            worst_t = (float(forces[b, k, r]), names[r], sweep, int(b), int(k))
+        b, k, r = np.unravel_index(int(np.argmin(forces)), forces.shape)
+        if forces[b, k, r] < worst_c[0]:
+            worst_c = (float(forces[b, k, r]), names[r], sweep, int(b), int(k))
+        for j, rod in enumerate(analysis.design.rods):
+            if rod.rod_end_rating_N is None:
+                continue
+            used = np.abs(forces[..., j]) / rod.rod_end_rating_N
+            b, k = np.unravel_index(int(np.argmax(used)), used.shape)
+            if used[b, k] > worst_rated[0]:
+                worst_rated = (float(used[b, k]), rod.name, sweep, int(b), int(k),
+                               rod.rod_end_rating_N)
+    cases = next(iter(analysis.statics.values())).cases
+
+    def at(entry: tuple[float, str, str, int, int]) -> str:
+        return (f"rod '{entry[1]}' in {_pose(analysis, entry[2], entry[3])}, "
+                f"load case '{cases[entry[4]]}'")
+
+    detail = []
+    if worst_t[1]:
+        detail.append(f"largest tension {worst_t[0]:+.1f} N: {at(worst_t)}")
+    if worst_c[1]:
+        detail.append(f"largest compression {worst_c[0]:+.1f} N: {at(worst_c)}")
+    largest = worst_t if abs(worst_t[0]) >= abs(worst_c[0]) else worst_c
+    if worst_rated[0] < 0:
+        detail.append("no rod gives rod_end_rating_N: only the magnitudes are reported")
+        return CheckResult("member-force", title, "pass", largest[0], None, "N",
+                           at(largest) if largest[1] else "no force", "; ".join(detail))
+    used, rod, sweep, b, k, rating = worst_rated
+    j = names.index(rod)
+    force = float(analysis.statics[sweep].rod_force_N[b, k, index[j]])
+    detail.append(f"highest use of a rod-end rating {used:.0%} (rod '{rod}', rated "
+                  f"{rating:g} N)")
+    return CheckResult("member-force", title, status_of(used), force, rating, "N",
+                       at((force, rod, sweep, b, k)), "; ".join(detail))
+
+
+LEAKAGE_AGREEMENT = 0.005
+"""Largest allowed gap between the direct and the virtual-work leakage (of the load)."""
+
+
+def check_sprung_leakage(analysis: Analysis) -> CheckResult:
+    limit = analysis.design.limits.sprung_leakage
+    title = "Sprung leakage: share of each element's vertical load reaching the chassis"
+    if not analysis.statics:
+        return _no_loads("sprung-leakage", title, limit, "")
+    worst = (-1.0, "", "", 0, 0, 0.0)
+    gap = 0.0
+    roll = [np.inf, -np.inf]
+    pitch = [np.inf, -np.inf]
+    for sweep, st in analysis.statics.items():
+        load = st.vertical_load_N  # (B, K, E)
+        safe = np.where(np.abs(load) > 1e-9, load, np.nan)
+        fraction = np.abs(st.leakage[..., 0] / safe)
+        fraction = np.where(np.isnan(fraction), 0.0, fraction)
+        b, k, e = np.unravel_index(int(np.argmax(fraction)), fraction.shape)
+        if fraction[b, k, e] > worst[0]:
+            worst = (float(fraction[b, k, e]), st.elements[e], sweep, int(b), int(k),
+                     float(st.leakage[b, k, e, 0]))
+        scale = np.maximum(np.abs(load), 1e-9)[..., None]
+        lever = analysis.link.characteristic_length() / 1000.0
+        diff = np.abs(st.leakage - st.leakage_virtual_work) / scale
+        diff[..., 1:] /= lever
+        gap = max(gap, float(diff.max()))
+        roll = [min(roll[0], float(st.leakage[..., 1].min())),
+                max(roll[1], float(st.leakage[..., 1].max()))]
+        pitch = [min(pitch[0], float(st.leakage[..., 2].min())),
+                 max(pitch[1], float(st.leakage[..., 2].max()))]
+    value, element, sweep, b, k, heave = worst
+    st = analysis.statics[sweep]
+    status = status_of(value / limit)
+    agree = (f"direct and virtual-work figures agree within {gap:.1e} of the load"
+             if gap <= LEAKAGE_AGREEMENT else
+             f"FLAG: direct and virtual-work figures differ by {gap:.2%} of the load")
+    if gap > LEAKAGE_AGREEMENT and status == "pass":
+        status = "warn"
+    detail = (f"heave force {heave:+.1f} N at the worst pose; roll moment {roll[0]:+.1f} to "
+              f"{roll[1]:+.1f} N·m, pitch moment {pitch[0]:+.1f} to {pitch[1]:+.1f} N·m about "
+              f"ground axes through each element's axle centre on the ground; {agree}")
+    if st.elastic:
+        detail += "; over-constrained: forces from the elastic solution (they depend on EA/L)"
+    return CheckResult("sprung-leakage", title, status, value, limit, "",
+                       f"element '{element}' in {_pose(analysis, sweep, b)}, load case "
+                       f"'{st.cases[k]}'", detail)
+
+
 def evaluate_checks(analysis: Analysis) -> list[CheckResult]:
     """Every check, in a fixed order."""
     return [
@@ -168,4 +289,6 @@ def evaluate_checks(analysis: Analysis) -> list[CheckResult]:
         check_line_of_action(analysis),
         check_transmission(analysis),
         check_ride_height(analysis),
+        check_member_force(analysis),
+        check_sprung_leakage(analysis),
     ]

@@ -312,14 +312,17 @@ class _DesignBuilder:
     def build(self, data: dict[str, Any]) -> Design:
         r = self.r
         r.keys(data, "", TOP_LEVEL_KEYS, required=("design", "corners", "elements"))
-        head = r.keys(data["design"], "design", ("name", "note", "plane", "mirror"),
-                      required=("name",))
+        head = r.keys(data["design"], "design",
+                      ("name", "note", "plane", "mirror", "top_speed_kmh"), required=("name",))
         name = r.string(head["name"], "design.name")
         note = r.string(head.get("note", ""), "design.note")
         plane = None
         if "plane" in head:
             plane = r.string(head["plane"], "design.plane", ("front", "side"))
         mirror = r.boolean(head.get("mirror", False), "design.mirror")
+        top_speed = None
+        if "top_speed_kmh" in head:
+            top_speed = r.number(head["top_speed_kmh"], "design.top_speed_kmh", positive=True)
         if mirror and plane == "side":
             r.fail("design.mirror", "a side-view planar design has no left and right",
                    "remove mirror, or use plane = \"front\"")
@@ -341,7 +344,7 @@ class _DesignBuilder:
             rockers=tuple(rockers), rods=tuple(rods), elements=tuple(elements),
             pickups=dict(self.pickups), sweeps=sweeps, limits=limits,
             load_cases=tuple(load_cases), materials=tuple(materials), zones=tuple(zones),
-            note=note,
+            note=note, top_speed_kmh=top_speed,
         )
         if mirror:
             design = _mirrored(design, self.r)

@@ -117,21 +117,34 @@ class BodyDrive:
         a0z = link.spin_axis[:, 2]
         return c0[..., 2] - link.tyre_radius_mm * np.sqrt(1.0 - a0z**2)
 
-    def rows(self, link: Linkage, kin: Kinematics) -> tuple[Array, Array]:
-        _, trans, _, _, up, centre, spin, na, sin = self._contact(link, kin)
-        radius = link.tyre_radius_mm
-        phi = (np.einsum("bi,bci->bc", up, centre) - radius * sin + trans[:, 2, None]
-               - self.ground_height(link))
-        h = (radius * na / sin)[..., None] * up[:, None, :]  # d(phi)/d(spin axis)
+    def contact_wrench(self, link: Linkage, kin: Kinematics) -> Array:
+        """(B, nc, 6) each contact row's wrench ``[f, m]`` on its upright.
+
+        It equals a unit force along the ground normal at the wheel's lowest point, so a
+        row multiplier is the ground's normal force on the tyre.
+        """
+        _, _, _, _, up, centre, spin, na, sin = self._contact(link, kin)
+        h = (link.tyre_radius_mm * na / sin)[..., None] * up[:, None, :]
         force = np.broadcast_to(up[:, None, :], centre.shape)
-        wrench = np.concatenate((force, cross(centre, force) + cross(spin, h)), axis=-1)
+        return np.concatenate((force, cross(centre, force) + cross(spin, h)), axis=-1)
+
+    def contact_levers(self, link: Linkage, kin: Kinematics) -> Array:
+        """(B, nc, 3) d(row)/d(ground up direction): the wheel centre shifted for camber."""
+        _, _, _, _, _, centre, spin, na, sin = self._contact(link, kin)
+        return centre + (link.tyre_radius_mm * na / sin)[..., None] * spin
+
+    def rows(self, link: Linkage, kin: Kinematics) -> tuple[Array, Array]:
+        _, trans, _, _, up, centre, _, _, sin = self._contact(link, kin)
+        phi = (np.einsum("bi,bci->bc", up, centre) - link.tyre_radius_mm * sin
+               + trans[:, 2, None] - self.ground_height(link))
+        wrench = self.contact_wrench(link, kin)
         jac = kin.jacobian_rows(link, link.corner_upright[:, None], wrench[:, :, None, :])
         return phi, jac
 
     def parameter_jacobian(self, link: Linkage, kin: Kinematics) -> Array:
-        _, _, d_rot, d_trans, _, centre, spin, na, sin = self._contact(link, kin)
+        _, _, d_rot, d_trans, _, _, _, _, _ = self._contact(link, kin)
         d_up = d_rot[:, :, 2, :]  # (B, 3 params, 3)
-        lever = centre + (link.tyre_radius_mm * na / sin)[..., None] * spin  # (B, nc, 3)
+        lever = self.contact_levers(link, kin)
         return np.einsum("bki,bci->bck", d_up, lever) + d_trans[:, None, :, 2]
 
 

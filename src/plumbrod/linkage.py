@@ -153,13 +153,16 @@ class Kinematics:
         return out
 
     def point_jacobian(self, link: Linkage, index: NDArray[np.intp]) -> Array:
-        """d(point)/dq for the points ``index``: (B, n, 3, nq)."""
-        p = self.points[:, index]  # (B, n, 3)
-        n, count = p.shape[0], p.shape[1]
+        """d(point)/dq for the named points ``index``: (B, n, 3, nq)."""
+        return self.jacobian_at(link, link.point_body[index], self.points[:, index])
+
+    def jacobian_at(self, link: Linkage, bodies: NDArray[np.intp], points: Array) -> Array:
+        """d(point)/dq for points (B, n, 3) fixed in ``bodies`` (n,): (B, n, 3, nq)."""
+        n, count = points.shape[0], points.shape[1]
         eye = np.broadcast_to(np.eye(3), (n, count, 3, 3))
-        wrench = np.concatenate((eye, cross(p[:, :, None, :], eye)), axis=-1)
-        bodies = np.repeat(link.point_body[index], 3)[:, None]
-        rows = self.jacobian_rows(link, bodies, wrench.reshape(n, count * 3, 1, 6))
+        wrench = np.concatenate((eye, cross(points[:, :, None, :], eye)), axis=-1)
+        rows = self.jacobian_rows(link, np.repeat(bodies, 3)[:, None],
+                                  wrench.reshape(n, count * 3, 1, 6))
         return rows.reshape(n, count, 3, -1)
 
     def body_twists(self, link: Linkage, bodies: NDArray[np.intp]) -> Array:
@@ -428,15 +431,18 @@ class Linkage:
             self._cache["member_rows"] = (ends, self.point_body[ends])
         return self._cache["member_rows"]  # type: ignore[return-value]
 
-    def residual_and_jacobian(self, kin: Kinematics) -> tuple[Array, Array]:
-        """Rod and ball-joint rows: residual (B, m) mm and Jacobian (B, m, nq)."""
+    def member_rows(self, kin: Kinematics) -> tuple[Array, Array, NDArray[np.intp]]:
+        """Rod and ball-joint rows: residual (B, m) mm, gradient (B, m, 3) and ends (m, 2).
+
+        The gradient is d(residual)/d(point) for the first end; the second end's is its
+        negative.  A constraint force ``lambda`` on the row acts as ``lambda * gradient``
+        on the first end's point and the opposite on the second's.
+        """
         pts = kin.points
         n = pts.shape[0]
         nr = len(self.rod_names)
-        ends, bodies = self._member_rows()
+        ends, _ = self._member_rows()
         m = ends.shape[0]
-        if m == 0:
-            return np.zeros((n, 0)), np.zeros((n, 0, self.n_coords))
         grad = np.empty((n, m, 3))
         res = np.empty((n, m))
         if nr:
@@ -446,12 +452,20 @@ class Linkage:
             grad[:, :nr] = d / length[..., None]
         if m > nr:
             comp = np.array(self.ball_components)
-            nc = comp.size
             gap = pts[:, self.ball_ends[:, 0]] - pts[:, self.ball_ends[:, 1]]
             res[:, nr:] = gap[:, :, comp].reshape(n, -1)
-            unit = np.eye(3)[comp]
-            grad[:, nr:] = np.tile(unit, (len(self.ball_names), 1))
-            del nc
+            grad[:, nr:] = np.tile(np.eye(3)[comp], (len(self.ball_names), 1))
+        return res, grad, ends
+
+    def residual_and_jacobian(self, kin: Kinematics) -> tuple[Array, Array]:
+        """Rod and ball-joint rows: residual (B, m) mm and Jacobian (B, m, nq)."""
+        pts = kin.points
+        n = pts.shape[0]
+        res, grad, ends = self.member_rows(kin)
+        m = ends.shape[0]
+        if m == 0:
+            return res, np.zeros((n, 0, self.n_coords))
+        _, bodies = self._member_rows()
         wrench = np.empty((n, m, 2, 6))
         wrench[:, :, 0, 0:3] = grad
         wrench[:, :, 1, 0:3] = -grad

@@ -256,6 +256,8 @@ class Design:
     materials: tuple[MaterialSpec, ...] = ()
     zones: tuple[Zone, ...] = ()
     note: str = ""
+    top_speed_kmh: float | None = None
+    """Speed of the default load cases when the design gives none."""
 
     def corner(self, name: str) -> Corner:
         """The corner called ``name``."""

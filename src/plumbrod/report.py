@@ -32,7 +32,9 @@ def _series(values: NDArray[np.float64]) -> list[float]:
     return [round(float(v), _SIGNIFICANT) for v in np.asarray(values).ravel()]
 
 
-def _limit_text(limit: float | tuple[float, float]) -> str:
+def _limit_text(limit: float | tuple[float, float] | None) -> str:
+    if limit is None:
+        return "-"
     if isinstance(limit, tuple):
         return f"{limit[0]:g} to {limit[1]:g}"
     return f"<= {limit:g}"
