@@ -10,11 +10,13 @@ Check ids are fixed: ``route-ratio``, ``line-of-action``, ``transmission-angle``
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
 from plumbrod.analysis import Analysis
+from plumbrod.compliance import ComplianceReport, compliance_report
+from plumbrod.structure import RodReserve, rod_reserves
 
 __all__ = ["WARN_FRACTION", "CheckResult", "evaluate_checks", "status_of"]
 
@@ -34,12 +36,19 @@ class CheckResult:
     unit: str
     where: str
     detail: str = ""
+    at_least: bool = False
+    """True when the value must be at least the limit (reserve factors)."""
 
     def as_json(self) -> dict[str, object]:
         limit = list(self.limit) if isinstance(self.limit, tuple) else self.limit
         value = None if self.value is None else round(float(self.value), 6)
+        if isinstance(self.limit, tuple):
+            rule = "range"
+        else:
+            rule = "min" if self.at_least else "max"
         return {"id": self.id, "title": self.title, "status": self.status, "value": value,
-                "limit": limit, "unit": self.unit, "where": self.where, "detail": self.detail}
+                "limit": limit, "limit_type": rule, "unit": self.unit, "where": self.where,
+                "detail": self.detail}
 
 
 def status_of(used: float) -> str:
@@ -282,8 +291,62 @@ def check_sprung_leakage(analysis: Analysis) -> CheckResult:
                        f"'{st.cases[k]}'", detail)
 
 
-def evaluate_checks(analysis: Analysis) -> list[CheckResult]:
-    """Every check, in a fixed order."""
+def _reserve_check(analysis: Analysis, check_id: str, title: str, required: float,
+                   reserves: dict[str, RodReserve], kind: str) -> CheckResult:
+    if not analysis.statics:
+        return replace(_no_loads(check_id, title, required, ""), at_least=True)
+    worst: tuple[float, RodReserve | None] = (np.inf, None)
+    for reserve in reserves.values():
+        rf = reserve.buckling_rf if kind == "buckling" else reserve.tension_rf
+        if rf < worst[0]:
+            worst = (rf, reserve)
+    rf, reserve = worst
+    if reserve is None:
+        none = "no rod is in compression" if kind == "buckling" else "no rod is in tension"
+        return CheckResult(check_id, title, "pass", None, required, "", none, "", True)
+    force = reserve.compression if kind == "buckling" else reserve.tension
+    assert force is not None
+    where = (f"rod '{reserve.name}' at {force.force_N:+.1f} N in "
+             f"{_pose(analysis, force.sweep, force.pose)}, load case '{force.case}'")
+    margin = rf / required - 1.0
+    if kind == "buckling":
+        detail = (f"P_cr {reserve.critical_load_N:.0f} N ({reserve.regime}, KL/r "
+                  f"{reserve.slenderness:.1f}, transition {reserve.transition_slenderness:.1f});"
+                  f" margin of safety {margin:+.2f}")
+    else:
+        detail = f"S_y·A {reserve.tension_capacity_N:.0f} N; margin of safety {margin:+.2f}"
+    return CheckResult(check_id, title, status_of(required / rf), rf, required, "", where,
+                       detail, True)
+
+
+def check_buckling(analysis: Analysis, reserves: dict[str, RodReserve]) -> CheckResult:
+    return _reserve_check(analysis, "buckling", "Buckling reserve of compression rods "
+                          "(Euler / Johnson)", analysis.design.limits.buckling_reserve,
+                          reserves, "buckling")
+
+
+def check_tension(analysis: Analysis, reserves: dict[str, RodReserve]) -> CheckResult:
+    return _reserve_check(analysis, "tension", "Tension reserve against yield",
+                          analysis.design.limits.tension_reserve, reserves, "tension")
+
+
+def check_compliance(analysis: Analysis, report: ComplianceReport) -> CheckResult:
+    limit = analysis.design.limits.compliance_mm
+    title = "Element deflection from rod stretch (route compliance)"
+    if report.worst is None:
+        return _no_loads("compliance", title, limit, "mm")
+    value, element, sweep, b, case = report.worst
+    stiff = ", ".join(f"{k} {v:,.0f} N/mm" for k, v in report.route_stiffness_N_per_mm.items())
+    return CheckResult("compliance", title, status_of(abs(value) / limit), abs(value), limit,
+                       "mm", f"element '{element}' in {_pose(analysis, sweep, b)}, load case "
+                       f"'{case}'", f"vertical stiffness at the route pickups: {stiff}")
+
+
+def evaluate_checks(analysis: Analysis, reserves: dict[str, RodReserve] | None = None,
+                    compliance: ComplianceReport | None = None) -> list[CheckResult]:
+    """Every check, in a fixed order (pass precomputed parts to avoid doing them twice)."""
+    reserves = rod_reserves(analysis) if reserves is None else reserves
+    compliance = compliance_report(analysis) if compliance is None else compliance
     return [
         check_route_ratio(analysis),
         check_line_of_action(analysis),
@@ -291,4 +354,7 @@ def evaluate_checks(analysis: Analysis) -> list[CheckResult]:
         check_ride_height(analysis),
         check_member_force(analysis),
         check_sprung_leakage(analysis),
+        check_buckling(analysis, reserves),
+        check_tension(analysis, reserves),
+        check_compliance(analysis, compliance),
     ]

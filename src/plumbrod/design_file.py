@@ -509,7 +509,8 @@ class _DesignBuilder:
             key = _join("elements", name)
             r.name(name, key)
             r.keys(etable, key,
-                   ("kind", "mass_kg", "cg_mm", "centre_of_pressure_mm", "pickups", "aero"),
+                   ("kind", "mass_kg", "cg_mm", "centre_of_pressure_mm", "pickups", "aero",
+                    "inertia_kg_m2"),
                    required=("mass_kg", "cg_mm", "centre_of_pressure_mm", "pickups"))
             aero = None
             if "aero" in etable:
@@ -527,8 +528,17 @@ class _DesignBuilder:
                     drag_coefficient=r.number(atable["drag_coefficient"],
                                               f"{akey}.drag_coefficient", non_negative=True),
                 )
+            inertia = None
+            if "inertia_kg_m2" in etable:
+                values = r.numbers(etable["inertia_kg_m2"], f"{key}.inertia_kg_m2", 3,
+                                   "[Ixx, Iyy, Izz] in kg·m²")
+                for i, v in enumerate(values):
+                    if v < 0:
+                        r.fail(f"{key}.inertia_kg_m2[{i}]", f"expected zero or more, got {v}",
+                               "moments of inertia cannot be negative")
+                inertia = _as3(values)
             elements.append(Element(
-                name=name,
+                name=name, inertia_kg_m2=inertia,
                 kind=r.string(etable.get("kind", "other"), f"{key}.kind", ELEMENT_KINDS),
                 mass_kg=r.number(etable["mass_kg"], f"{key}.mass_kg", non_negative=True),
                 cg_mm=r.point(etable["cg_mm"], f"{key}.cg_mm"),

@@ -162,6 +162,8 @@ class Element:
     cg_mm: Vec3
     centre_of_pressure_mm: Vec3
     aero: AeroData | None = None
+    inertia_kg_m2: Vec3 | None = None
+    """Moments of inertia about the cg along x, y, z (kg·m²); estimated when missing."""
 
 
 @dataclass(frozen=True)

@@ -16,6 +16,8 @@ from numpy.typing import NDArray
 from plumbrod.analysis import Analysis
 from plumbrod.cautions import CAUTION
 from plumbrod.checks import CheckResult
+from plumbrod.findings import Findings
+from plumbrod.members import Member
 
 __all__ = ["as_json", "as_text", "verdict"]
 
@@ -32,12 +34,13 @@ def _series(values: NDArray[np.float64]) -> list[float]:
     return [round(float(v), _SIGNIFICANT) for v in np.asarray(values).ravel()]
 
 
-def _limit_text(limit: float | tuple[float, float] | None) -> str:
+def _limit_text(check: CheckResult) -> str:
+    limit = check.limit
     if limit is None:
         return "-"
     if isinstance(limit, tuple):
         return f"{limit[0]:g} to {limit[1]:g}"
-    return f"<= {limit:g}"
+    return f"{'>=' if check.at_least else '<='} {limit:g}"
 
 
 def _value_text(check: CheckResult) -> str:
@@ -61,8 +64,49 @@ def location_summary(analysis: Analysis) -> dict[str, object]:
     }
 
 
-def as_text(analysis: Analysis, checks: Sequence[CheckResult]) -> str:
-    """The report as plain text (fits 100 columns except long pose descriptions)."""
+def _table(rows: list[tuple[str, ...]]) -> list[str]:
+    widths = [max(len(r[i]) for r in rows) for i in range(len(rows[0]))]
+    return ["  ".join(r[i].ljust(widths[i]) for i in range(len(r))).rstrip() for r in rows]
+
+
+def _section_text(member: Member) -> str:
+    s = member.section
+    return f"tube {s.od_mm:g} x {s.wall_mm:g}" if s.wall_mm else f"bar {s.od_mm:g}"
+
+
+def _rf_text(rf: float) -> str:
+    return "-" if not np.isfinite(rf) else f"{rf:.2f}"
+
+
+def member_rows(findings: Findings) -> list[tuple[str, ...]]:
+    rows = [("rod", "section mm", "material", "length mm", "mass g", "min force N",
+             "max force N", "P_cr N", "regime", "RF buckling", "RF tension")]
+    for name, reserve in findings.reserves.items():
+        member = findings.analysis.members[name]
+        low = reserve.compression.force_N if reserve.compression else 0.0
+        high = reserve.tension.force_N if reserve.tension else 0.0
+        rows.append((name, _section_text(member), member.material.id,
+                     f"{member.length_mm:.1f}", f"{member.mass_kg * 1000:.0f}",
+                     f"{low:+.1f}", f"{high:+.1f}", f"{reserve.critical_load_N:.0f}",
+                     reserve.regime, _rf_text(reserve.buckling_rf), _rf_text(reserve.tension_rf)))
+    return rows
+
+
+def mass_rows(findings: Findings) -> list[tuple[str, ...]]:
+    rows = [("corner", "static share kg", "kinetic single-wheel kg", "kinetic heave kg",
+             "existing kg")]
+    for c in findings.mass.corners:
+        existing = "-" if c.existing_kg is None else (
+            f"{c.existing_kg:g} (+{c.static_share_kg / c.existing_kg:.0%} static)"
+            if c.existing_kg > 0 else f"{c.existing_kg:g}")
+        rows.append((c.corner, f"{c.static_share_kg:.2f}", f"{c.kinetic_single_kg:.2f}",
+                     f"{c.kinetic_heave_kg:.2f}", existing))
+    return rows
+
+
+def as_text(findings: Findings) -> str:
+    """The report as plain text."""
+    analysis, checks = findings.analysis, findings.checks
     d = analysis.design
     m = analysis.mobility
     lines = [f"plumbrod check: {d.name}", f"file: {d.source}"]
@@ -85,18 +129,32 @@ def as_text(analysis: Analysis, checks: Sequence[CheckResult]) -> str:
         parts.append(f"{name} {res.spec.size}")
         worst = max(worst, float(res.solved.residual_max_mm.max(initial=0.0)))
     lines.append(f"poses solved: {', '.join(parts)}; largest residual {worst:.1e} mm")
+    if analysis.loads is not None:
+        lines.append(f"load cases: {', '.join(analysis.loads.cases)}")
+    else:
+        lines.append("load cases: none (give [design] top_speed_kmh and element aero data, "
+                     "or [load_cases]); forces are not checked")
+    if any(st.elastic for st in analysis.statics.values()):
+        lines.append("over-constrained: forces come from an elastic solution with rod "
+                     "stiffness EA/L, so they depend on the members' stiffness")
     lines.append("")
     rows = [("check", "status", "value", "limit", "worst at")]
     for c in checks:
-        rows.append((c.id, c.status.upper(), _value_text(c), _limit_text(c.limit), c.where))
-    widths = [max(len(r[i]) for r in rows) for i in range(4)]
-    for r in rows:
-        lines.append("  ".join(r[i].ljust(widths[i]) for i in range(4)) + "  " + r[4])
+        rows.append((c.id, c.status.upper(), _value_text(c), _limit_text(c), c.where))
+    lines += _table(rows)
     details = [c for c in checks if c.detail]
     if details:
         lines.append("")
         for c in details:
             lines.append(f"{c.id}: {c.detail}")
+    if findings.reserves and analysis.statics:
+        lines += ["", "members (worst over every sweep and load case; force + tension)"]
+        lines += _table(member_rows(findings))
+    lines += ["", f"route mass {findings.mass.total_kg:.2f} kg; added unsprung mass per corner"]
+    lines += _table(mass_rows(findings))
+    if findings.mass.estimated_inertia:
+        lines.append("element inertia estimated as a uniform block (give inertia_kg_m2): "
+                     + ", ".join(findings.mass.estimated_inertia))
     v = verdict(checks)
     counts = {s: sum(c.status == s for c in checks) for s in ("pass", "warn", "fail")}
     lines += ["", f"verdict: {v.upper()} ({counts['pass']} pass, {counts['warn']} warn, "
@@ -137,9 +195,25 @@ def _sens_key(parameter: str) -> str:
     return "heave_mm_per_mm" if parameter == "heave" else f"{parameter}_mm_per_deg"
 
 
-def as_json(analysis: Analysis, checks: Sequence[CheckResult], *, indent: int | None = 1) -> str:
+def as_json(findings: Findings, *, indent: int | None = 1) -> str:
     """The report as JSON text."""
+    analysis, checks = findings.analysis, findings.checks
     d = analysis.design
+    members = []
+    for name, reserve in findings.reserves.items():
+        member = analysis.members[name]
+        members.append({
+            "name": name, "material": member.material.id, "od_mm": member.section.od_mm,
+            "wall_mm": member.section.wall_mm, "length_mm": round(member.length_mm, 6),
+            "mass_kg": round(member.mass_kg, 6),
+            "stiffness_N_per_mm": round(member.stiffness_N_per_mm, 3),
+            "critical_load_N": round(reserve.critical_load_N, 3), "regime": reserve.regime,
+            "slenderness": round(reserve.slenderness, 4),
+            "min_force_N": None if reserve.compression is None else
+            round(reserve.compression.force_N, 4),
+            "max_force_N": None if reserve.tension is None else round(reserve.tension.force_N, 4),
+            "buckling_reserve": _finite(reserve.buckling_rf),
+            "tension_reserve": _finite(reserve.tension_rf)})
     doc = {
         "design": {"name": d.name, "file": d.source, "plane": d.plane,
                    "corners": [c.name for c in d.corners],
@@ -152,7 +226,22 @@ def as_json(analysis: Analysis, checks: Sequence[CheckResult], *, indent: int | 
                     "bodies": list(r.bodies), "receiving_rods": list(r.receiving_rods),
                     "delivering_rods": list(r.delivering_rods)} for r in analysis.routes.routes],
         "guides": list(analysis.routes.guides),
+        "load_cases": list(analysis.loads.cases) if analysis.loads else [],
+        "members": members,
+        "mass": {"bodies_kg": {k: round(v, 6) for k, v in findings.mass.bodies_kg.items()},
+                 "corners": [{"corner": c.corner,
+                              "static_share_kg": round(c.static_share_kg, 6),
+                              "kinetic_single_wheel_kg": round(c.kinetic_single_kg, 6),
+                              "kinetic_heave_kg": round(c.kinetic_heave_kg, 6),
+                              "existing_kg": c.existing_kg} for c in findings.mass.corners],
+                 "estimated_inertia": list(findings.mass.estimated_inertia)},
+        "compliance": {"route_stiffness_N_per_mm": {
+            k: _finite(v) for k, v in findings.compliance.route_stiffness_N_per_mm.items()}},
         "sweeps": sweep_json(analysis),
         "caution": CAUTION,
     }
     return json.dumps(doc, indent=indent, ensure_ascii=False) + "\n"
+
+
+def _finite(value: float) -> float | None:
+    return round(float(value), 6) if np.isfinite(value) else None

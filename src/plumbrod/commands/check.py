@@ -17,8 +17,9 @@ def register(subparsers: Any) -> None:
         help="solve a design through its sweeps and check every figure against its limit",
         description=(
             "Solve the linkage of a design file through the wheel travel and the body "
-            "motions, and check route ratio, line of action, transmission angles and "
-            "ride-height sensitivity against the design's limits. Exit 0 when nothing "
+            "motions, and check route ratio, line of action, transmission angles, "
+            "ride-height sensitivity, member forces, sprung leakage, buckling, tension and "
+            "compliance against the design's limits. Exit 0 when nothing "
             "fails (warnings allowed), 1 when a check fails, 2 on bad input."
         ),
         epilog=CAUTION,
@@ -32,17 +33,14 @@ def register(subparsers: Any) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
-    from plumbrod.analysis import analyse
     from plumbrod.atomic import write_atomic
-    from plumbrod.checks import evaluate_checks
     from plumbrod.design_file import load_design
+    from plumbrod.findings import review
     from plumbrod.report import as_json, as_text, verdict
 
-    design = load_design(args.design)
-    analysis = analyse(design)
-    checks = evaluate_checks(analysis)
-    text = as_json(analysis, checks) if args.json else as_text(analysis, checks)
+    findings = review(load_design(args.design))
+    text = as_json(findings) if args.json else as_text(findings)
     if args.output:
         write_atomic(args.output, text)
     sys.stdout.write(text)
-    return 1 if verdict(checks) == "fail" else 0
+    return 1 if verdict(findings.checks) == "fail" else 0

@@ -1,0 +1,33 @@
+"""Everything a report shows about a design, computed once: the analysis, the checks
+and the tables behind them (member reserves, masses, compliance)."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from plumbrod.analysis import Analysis, analyse
+from plumbrod.checks import CheckResult, evaluate_checks
+from plumbrod.compliance import ComplianceReport, compliance_report
+from plumbrod.mass import MassReport, mass_report
+from plumbrod.model import Design
+from plumbrod.structure import RodReserve, rod_reserves
+
+__all__ = ["Findings", "review"]
+
+
+@dataclass(frozen=True)
+class Findings:
+    analysis: Analysis
+    checks: list[CheckResult]
+    reserves: dict[str, RodReserve]
+    mass: MassReport
+    compliance: ComplianceReport
+
+
+def review(design: Design) -> Findings:
+    """Analyse a design and evaluate every check."""
+    analysis = analyse(design)
+    reserves = rod_reserves(analysis)
+    compliance = compliance_report(analysis)
+    checks = evaluate_checks(analysis, reserves, compliance)
+    return Findings(analysis, checks, reserves, mass_report(analysis), compliance)
