@@ -1,0 +1,162 @@
+"""Size every rod: the lightest catalogue section that keeps its reserves.
+
+For each rod written in the design file (a mirrored right-hand copy is sized with its
+left-hand original, for the worse of the two), every catalogue section in every allowed
+material is tried against the rod's worst compression and tension over all sweeps and
+load cases: buckling RF = P_cr/|P| and tension RF = S_y·A/P must reach the design's
+limits, and the rod's clearance (when the design has zones) must stay above its limit
+with the new outside diameter.  The lightest such section wins (ties: smaller OD).
+
+The new sections are written into a copy of the design file's text, so its comments and
+layout survive; the result is re-analysed to confirm it.
+"""
+
+from __future__ import annotations
+
+import re
+from collections.abc import Callable, Sequence
+from dataclasses import dataclass
+
+import numpy as np
+
+from plumbrod.columns import critical_load_N
+from plumbrod.findings import Findings
+from plumbrod.materials import Material
+from plumbrod.members import Member, material_table
+from plumbrod.sections import Section, catalogue_sections
+
+__all__ = ["SizingChoice", "apply_sizes", "choose_sections", "file_rod_name"]
+
+
+@dataclass(frozen=True)
+class SizingChoice:
+    """The section chosen for one rod entry of the design file."""
+
+    entry: str
+    rods: tuple[str, ...]
+    before: Member
+    section: Section | None
+    material: Material | None
+    mass_kg: float
+    buckling_rf: float
+    tension_rf: float
+    reason: str = ""
+
+
+def file_rod_name(name: str, entries: Sequence[str]) -> str:
+    """The design-file entry a rod comes from (a mirrored copy maps to its original)."""
+    if name in entries:
+        return name
+    left = name.replace("right", "left")
+    return left if left in entries else name
+
+
+def choose_sections(
+    findings: Findings,
+    entries: Sequence[str],
+    materials: Sequence[str] | None = None,
+    system: str = "all",
+    clearance_margin_mm: Callable[[str], float] | None = None,
+) -> list[SizingChoice]:
+    """The lightest adequate section for each file entry.
+
+    ``materials``: material ids allowed (default: each rod's own).  ``clearance_margin_mm``
+    gives, for a rod, how much its radius may grow before its clearance limit is reached
+    (``inf`` when the design has no zones).
+    """
+    analysis = findings.analysis
+    limits = analysis.design.limits
+    table = material_table(analysis.design)
+    catalogue = catalogue_sections(system)
+    choices: list[SizingChoice] = []
+    groups: dict[str, list[str]] = {}
+    for rod in analysis.design.rods:
+        groups.setdefault(file_rod_name(rod.name, entries), []).append(rod.name)
+    for entry, rods in groups.items():
+        before = analysis.members[rods[0]]
+        compression = min((findings.reserves[r].compression.force_N
+                           for r in rods if findings.reserves[r].compression), default=0.0)
+        tension = max((findings.reserves[r].tension.force_N
+                       for r in rods if findings.reserves[r].tension), default=0.0)
+        allowed = [table[m] for m in (materials or [before.material.id])]
+        room = min((clearance_margin_mm(r) for r in rods), default=np.inf) \
+            if clearance_margin_mm else np.inf
+        best: tuple[float, float, Section, Material, float, float] | None = None
+        for material in allowed:
+            for section in catalogue:
+                grow = (section.od_mm - before.section.od_mm) / 2.0
+                if grow > room:
+                    continue
+                area, inertia = section.area_mm2, section.second_moment_mm4
+                p_cr = float(critical_load_N(area, inertia, before.length_mm,
+                                             before.rod.end_fixity, material.modulus_MPa,
+                                             material.yield_MPa))
+                rf_b = p_cr / abs(compression) if compression < 0 else np.inf
+                rf_t = material.yield_MPa * area / tension if tension > 0 else np.inf
+                if rf_b < limits.buckling_reserve or rf_t < limits.tension_reserve:
+                    continue
+                mass = material.density_kg_m3 * area * 1e-9 * before.length_mm
+                key = (mass, section.od_mm)
+                if best is None or key < (best[0], best[1]):
+                    best = (mass, section.od_mm, section, material, rf_b, rf_t)
+        if best is None:
+            choices.append(SizingChoice(entry, tuple(rods), before, None, None, np.nan,
+                                        np.nan, np.nan, "no catalogue section in the allowed "
+                                        "materials meets the reserves"
+                                        + ("" if room == np.inf else " and the clearance")))
+            continue
+        mass, _, section, material, rf_b, rf_t = best
+        choices.append(SizingChoice(entry, tuple(rods), before, section, material, mass, rf_b,
+                                    rf_t))
+    return choices
+
+
+_HEADER = re.compile(r'^\s*\[\s*rods\s*\.\s*(?P<name>"[^"]+"|[A-Za-z0-9_\-]+)\s*\]\s*(#.*)?$')
+_ANY_HEADER = re.compile(r"^\s*\[")
+_KEY = re.compile(r"^(?P<indent>\s*)(?P<key>od_mm|wall_mm|material|solid)(?P<eq>\s*=\s*)"
+                  r"(?P<value>\"[^\"]*\"|[^#\s]+)(?P<rest>.*)$", re.DOTALL)
+
+
+def apply_sizes(text: str, choices: Sequence[SizingChoice]) -> str:
+    """The design text with each chosen section written into its ``[rods.<name>]`` table.
+
+    Values are replaced in place (comments after them stay); ``wall_mm`` and
+    ``solid = true`` are swapped when a tube becomes a bar or back.  Raises ValueError
+    naming a rod whose table cannot be found in the text.
+    """
+    lines = text.splitlines(keepends=True)
+    for choice in choices:
+        if choice.section is None or choice.material is None:
+            continue
+        start = next((i for i, line in enumerate(lines)
+                      if (m := _HEADER.match(line)) and m["name"].strip('"') == choice.entry),
+                     None)
+        if start is None:
+            raise ValueError(f"rods.{choice.entry}: not written as a [rods.{choice.entry}] "
+                             "table, so it cannot be edited in place")
+        end = next((i for i in range(start + 1, len(lines)) if _ANY_HEADER.match(lines[i])),
+                   len(lines))
+        s = choice.section
+        wanted = {"od_mm": f"{s.od_mm:g}", "material": f'"{choice.material.id}"'}
+        if s.wall_mm is not None:
+            wanted["wall_mm"] = f"{s.wall_mm:g}"
+        else:
+            wanted["solid"] = "true"
+        body: list[str] = []
+        anchor = 0
+        for line in lines[start + 1:end]:
+            m = _KEY.match(line)
+            if m is None:
+                body.append(line)
+                continue
+            key = m["key"]
+            if key not in wanted:
+                continue  # wall_mm of a tube that became a bar, or solid of a new tube
+            body.append(f"{m['indent']}{key}{m['eq']}{wanted.pop(key)}{m['rest']}")
+            if key == "od_mm":
+                anchor = len(body)
+        for key, value in wanted.items():  # keys the table did not have yet
+            body.insert(anchor, f"{key} = {value}\n")
+            anchor += 1
+        lines[start + 1:end] = body
+    return "".join(lines)
