@@ -41,9 +41,13 @@ class TravelDrive:
     def with_parameters(self, parameters: Array) -> TravelDrive:
         return TravelDrive(np.asarray(parameters, dtype=float))
 
+    def residual(self, link: Linkage, kin: Kinematics) -> Array:
+        wc = link.wheel_centre
+        return kin.points[:, wc, 2] - link.points[:, wc, 2] - self.parameters
+
     def rows(self, link: Linkage, kin: Kinematics) -> tuple[Array, Array]:
         wc = link.wheel_centre
-        phi = kin.points[:, wc, 2] - link.points[:, wc, 2] - self.parameters
+        phi = self.residual(link, kin)
         n, nc = phi.shape
         wrench = np.zeros((n, nc, 1, 6))
         wrench[:, :, 0, 2] = 1.0
@@ -133,10 +137,13 @@ class BodyDrive:
         _, _, _, _, _, centre, spin, na, sin = self._contact(link, kin)
         return centre + (link.tyre_radius_mm * na / sin)[..., None] * spin
 
-    def rows(self, link: Linkage, kin: Kinematics) -> tuple[Array, Array]:
+    def residual(self, link: Linkage, kin: Kinematics) -> Array:
         _, trans, _, _, up, centre, _, _, sin = self._contact(link, kin)
-        phi = (np.einsum("bi,bci->bc", up, centre) - link.tyre_radius_mm * sin
-               + trans[:, 2, None] - self.ground_height(link))
+        return (np.einsum("bi,bci->bc", up, centre) - link.tyre_radius_mm * sin
+                + trans[:, 2, None] - self.ground_height(link))
+
+    def rows(self, link: Linkage, kin: Kinematics) -> tuple[Array, Array]:
+        phi = self.residual(link, kin)
         wrench = self.contact_wrench(link, kin)
         jac = kin.jacobian_rows(link, link.corner_upright[:, None], wrench[:, :, None, :])
         return phi, jac

@@ -146,7 +146,7 @@ class Kinematics:
         """
         n, rows, sides = wrench.shape[0], wrench.shape[1], wrench.shape[2]
         per = (wrench.reshape(n, rows * sides, 6) @ self.columns).reshape(n, rows, sides, -1)
-        mask = link.ancestors[bodies]
+        mask = link.float_ancestors[bodies]
         out = per[:, :, 0] * mask[:, 0]
         for side in range(1, sides):
             out += per[:, :, side] * mask[:, side]
@@ -250,6 +250,13 @@ class Linkage:
         return replace(self, points=points, _cache={})
 
     @property
+    def float_ancestors(self) -> Array:
+        """``ancestors`` as 0.0/1.0 (multiplying by floats is faster than by booleans)."""
+        if "float_ancestors" not in self._cache:
+            self._cache["float_ancestors"] = self.ancestors.astype(float)
+        return self._cache["float_ancestors"]  # type: ignore[return-value]
+
+    @property
     def axis_direction(self) -> Array:
         """(G, nb, 3) unit hinge axis / slide direction of each body (zeros otherwise)."""
         if "axis" not in self._cache:
@@ -345,8 +352,9 @@ class Linkage:
             self._cache["homogeneous"] = (cols, rows, np.ascontiguousarray(which))
         return self._cache["homogeneous"]  # type: ignore[return-value]
 
-    def kinematics(self, pose: Pose) -> Kinematics:
-        """Body poses, point positions and coordinate twists for a batch of poses."""
+    def kinematics(self, pose: Pose, twists: bool = True) -> Kinematics:
+        """Body poses, point positions and (unless ``twists`` is False, when only
+        positions are needed) the coordinate twists for a batch of poses."""
         n = pose.size
         nb = self.n_bodies
         affine = np.empty((n, nb, 3, 4))
@@ -354,7 +362,7 @@ class Linkage:
         trans = affine[..., 3]
         rot[:, 0] = np.eye(3)
         trans[:, 0] = 0.0
-        col = np.zeros((n, 6, self.n_coords))
+        col = np.zeros((n, 6, self.n_coords) if twists else (n, 6, 0))
         if self.n_free:
             free = np.flatnonzero(self.mount == FREE)
             slots = self.free_index[free]
@@ -364,6 +372,7 @@ class Linkage:
             refs = self.points[:, self.reference[free]]
             trans[:, free] = c - (r @ refs[..., None])[..., 0]
             nf = len(free)
+        if self.n_free and twists:
             full = np.zeros((n, 6, nf, 6))
             idx = np.arange(nf)
             for i in range(3):
@@ -394,16 +403,19 @@ class Linkage:
                 if on_chassis:
                     rot[:, bodies] = turn
                     trans[:, bodies] = shift
-                    u_w = np.broadcast_to(u, (n, *u.shape[1:]))
-                    a_w = np.broadcast_to(a, (n, *a.shape[1:]))
+                    if twists:
+                        u_w = np.broadcast_to(u, (n, *u.shape[1:]))
+                        a_w = np.broadcast_to(a, (n, *a.shape[1:]))
                 else:
                     rp, tp = rot[:, par], trans[:, par]
                     rot[:, bodies] = rp @ turn
                     trans[:, bodies] = (rp @ shift[..., None])[..., 0] + tp
-                    u_w = (rp @ u[..., None])[..., 0]
-                    a_w = (rp @ a[..., None])[..., 0] + tp
-                col[:, 0:3, jnt] = np.swapaxes(cross(a_w, u_w), 1, 2)
-                col[:, 3:6, jnt] = np.swapaxes(u_w, 1, 2)
+                    if twists:
+                        u_w = (rp @ u[..., None])[..., 0]
+                        a_w = (rp @ a[..., None])[..., 0] + tp
+                if twists:
+                    col[:, 0:3, jnt] = np.swapaxes(cross(a_w, u_w), 1, 2)
+                    col[:, 3:6, jnt] = np.swapaxes(u_w, 1, 2)
             bodies = entry["slide"]
             if bodies.size:
                 par = entry["slide_parent"]
@@ -417,7 +429,8 @@ class Linkage:
                     rot[:, bodies] = rp
                     u_w = (rp @ u[..., None])[..., 0]
                 trans[:, bodies] = trans[:, par] + u_w * pose.joint[:, jnt, None]
-                col[:, 0:3, jnt] = np.swapaxes(u_w, 1, 2)
+                if twists:
+                    col[:, 0:3, jnt] = np.swapaxes(u_w, 1, 2)
         cols, rows, which = self._homogeneous_points()
         every = affine.reshape(n, 3 * nb, 4) @ cols  # each body's transform on each point
         pts = every[:, rows, which]
@@ -456,6 +469,10 @@ class Linkage:
             res[:, nr:] = gap[:, :, comp].reshape(n, -1)
             grad[:, nr:] = np.tile(np.eye(3)[comp], (len(self.ball_names), 1))
         return res, grad, ends
+
+    def residual(self, kin: Kinematics) -> Array:
+        """Rod and ball-joint rows' residual (B, m) mm, without the Jacobian."""
+        return self.member_rows(kin)[0]
 
     def residual_and_jacobian(self, kin: Kinematics) -> tuple[Array, Array]:
         """Rod and ball-joint rows: residual (B, m) mm and Jacobian (B, m, nq)."""

@@ -21,7 +21,15 @@ from plumbrod.errors import AssemblyError
 from plumbrod.linkage import Kinematics, Linkage, Pose, concatenate_poses
 from plumbrod.transmission import assembly_signs
 
-__all__ = ["RESIDUAL_TOL_MM", "Solved", "evaluate", "newton", "solve_poses", "tangent"]
+__all__ = [
+    "RESIDUAL_TOL_MM",
+    "Solved",
+    "evaluate",
+    "evaluate_residual",
+    "newton",
+    "solve_poses",
+    "tangent",
+]
 
 Array = NDArray[np.float64]
 RESIDUAL_TOL_MM = 1e-10
@@ -81,6 +89,12 @@ def tangent(link: Linkage, drive: Drive, kin: Kinematics, jac: Array) -> Array:
         except np.linalg.LinAlgError:
             pass
     return -(np.linalg.pinv(jac, rcond=1e-12) @ full)
+
+
+def evaluate_residual(link: Linkage, drive: Drive, pose: Pose) -> Array:
+    """Residual rows (B, m) only: members then drivers."""
+    kin = link.kinematics(pose, twists=False)
+    return np.concatenate((link.residual(kin), drive.residual(link, kin)), axis=1)
 
 
 def newton(
