@@ -6,6 +6,12 @@ stacked linear algebra.  Poses that do not converge, or land on another assembly
 branch, are reached by continuation from the nearest solved pose with step halving.
 A pose that cannot be reached raises :class:`~plumbrod.errors.AssemblyError` naming
 the member with the largest residual and the driver values.
+
+Assembly branch: the sign of the constraint Jacobian's determinant.  It changes only
+through a singular pose, where two assemblies meet (a rocker at a dead point), so a
+solved pose whose sign differs from the design's lies on another branch.  A rod passing
+straight through a rocker's pivot line on a rocker that another rod drives is not a
+branch change; the transmission-angle check reports it.
 """
 
 from __future__ import annotations
@@ -19,7 +25,6 @@ from numpy.typing import NDArray
 from plumbrod.drives import Drive
 from plumbrod.errors import AssemblyError
 from plumbrod.linkage import Kinematics, Linkage, Pose, concatenate_poses
-from plumbrod.transmission import assembly_signs
 
 __all__ = [
     "RESIDUAL_TOL_MM",
@@ -194,11 +199,12 @@ def solve_poses(
     base = link.design_pose(1)
     base_drive = drive.with_parameters(zero)
     kin0, _, jac0 = evaluate(link, base_drive, base)
-    signs0 = np.sign(assembly_signs(link, kin0))
+    rows = _branch_rows(jac0[0])
+    signs0 = _branch_sign(jac0, rows)
     tan0 = tangent(link, base_drive, kin0, jac0)[0]  # (nq, npar)
     guess = link.advance(base.repeat(count), params @ tan0.T)
     solved, ok = newton(link, drive, guess)
-    ok &= _same_branch(link, solved.kin, signs0)
+    ok &= _branch_sign(solved.jacobian, rows) == signs0
     if ok.all():
         return solved
     describe = describe or (lambda p: ", ".join(f"{v:+.4g}" for v in p))
@@ -211,7 +217,8 @@ def solve_poses(
             near = int(np.argmin(np.linalg.norm(done_params - params[i], axis=1)))
             if np.linalg.norm(done_params[near] - params[i]) < np.linalg.norm(params[i]):
                 start_pose, start_par = done_pose.take(near), done_params[near]
-        pose_i = _continue(link, drive, start_pose, start_par, params[i], signs0, sweep_name,
+        pose_i = _continue(link, drive, start_pose, start_par, params[i], (rows, signs0),
+                           sweep_name,
                            describe)
         fixes.append((int(i), pose_i))
         done_params = np.vstack((done_params, params[i]))
@@ -223,10 +230,24 @@ def solve_poses(
     return Solved(pose, kin, res, jac, solved.iterations)
 
 
-def _same_branch(link: Linkage, kin: Kinematics, signs0: Array) -> NDArray[np.bool_]:
-    signs = np.sign(assembly_signs(link, kin))
-    relevant = signs0 != 0
-    return ~np.any((signs != signs0) & relevant, axis=1)
+def _branch_rows(jac: Array) -> NDArray[np.intp]:
+    """Rows of a design Jacobian (m, n) that form a square, full-rank set."""
+    m, n = jac.shape
+    if m == n:
+        return np.arange(m)
+    chosen: list[int] = []
+    for r in range(m):
+        trial = jac[[*chosen, r]]
+        if np.linalg.matrix_rank(trial) == len(chosen) + 1:
+            chosen.append(r)
+        if len(chosen) == n:
+            break
+    return np.array(chosen, dtype=np.intp)
+
+
+def _branch_sign(jac: Array, rows: NDArray[np.intp]) -> Array:
+    """(B,) sign of the determinant of the chosen square rows of the Jacobian."""
+    return np.linalg.slogdet(jac[:, rows])[0]
 
 
 def _continue(
@@ -235,7 +256,7 @@ def _continue(
     pose: Pose,
     start: Array,
     target: Array,
-    signs0: Array,
+    branch: tuple[NDArray[np.intp], Array],
     sweep_name: str,
     describe: Callable[[Array], str],
 ) -> Pose:
@@ -252,28 +273,30 @@ def _continue(
         guess = link.advance(pose, ((nxt - current) @ tan.T)[None])
         d_next = drive.with_parameters(nxt[None])
         solved, ok = newton(link, d_next, guess)
-        if ok[0] and _same_branch(link, solved.kin, signs0)[0]:
+        if ok[0] and _branch_sign(solved.jacobian, branch[0])[0] == branch[1][0]:
             pose, current, done = solved.pose, nxt, done + step
             step = min(step * 2.0, 1.0)
             continue
         step *= 0.5
         if step < MIN_CONTINUATION_STEP:
-            member, detail = _diagnose(link, d_next, solved, signs0)
+            member, detail = _diagnose(link, solved, ok[0])
             raise AssemblyError(member, sweep_name, describe(nxt), detail)
     return pose
 
 
-def _diagnose(link: Linkage, drive: Drive, solved: Solved, signs0: Array) -> tuple[str, str]:
-    """Name the member that fails: a branch change, or the largest residual."""
-    signs = np.sign(assembly_signs(link, solved.kin))[0]
-    flipped = np.flatnonzero((signs != signs0[0]) & (signs0[0] != 0))
-    from plumbrod.transmission import joint_labels
-
-    if flipped.size:
-        rod, body = joint_labels(link)[int(flipped[0])]
-        return rod, (f"rod '{rod}' passes through lock-up at '{body}' (the rocker would "
-                     "flip to its other assembly)")
+def _diagnose(link: Linkage, solved: Solved, converged: bool) -> tuple[str, str]:
+    """Name the member that fails: at a dead point, the rod the singular direction
+    loads most; otherwise the row with the largest residual."""
     labels = [*link.row_labels(), *(f"corner '{c}' driver" for c in link.corner_names)]
+    if converged:  # it converged, but only onto the other assembly: a dead point between
+        u, _, _ = np.linalg.svd(solved.jacobian[0])
+        weight = np.abs(u[:, -1])
+        weight[len(link.rod_names):] = 0.0  # name a rod
+        row = int(np.argmax(weight)) if weight.any() else 0
+        name = labels[row]
+        member = name.split("'")[1] if "'" in name else name
+        return member, (f"{name} reaches a dead point: the linkage would have to flip to "
+                        "its other assembly to go further")
     row = int(np.argmax(np.abs(solved.residual[0])))
     name = labels[row]
     member = name.split("'")[1] if "'" in name else name
