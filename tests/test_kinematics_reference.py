@@ -410,3 +410,28 @@ def test_example_with_both_routes_on_the_rocker_axes_rides_as_if_bolted() -> Non
     roll = analysis.figures["roll"].ride_height["splitter"].sensitivity["roll"]
     at_rest = roll[len(roll) // 2]  # the roll sweep's middle pose is the design pose
     assert at_rest == pytest.approx(240.0 * math.pi / 180.0, rel=1e-9)
+
+
+def test_crank_passing_the_outputs_limit_position_stays_on_the_open_branch() -> None:
+    # A Grashof crank-rocker (40 + 120 < 80 + 100, crank shortest) driven at its crank by
+    # a rod from the wheel: the crank may turn through the pose where it lines up with the
+    # coupler. There the output rocker reaches its limit position and turns back; the
+    # linkage stays on the open branch of Freudenstein's equation (source: Freudenstein
+    # 1955, pub; Norton §4.5, memory) and the drive rod's transmission angle stays near
+    # 90°, so nothing locks and no rocker changes assembly.
+    bar = FourBar(theta2_deg=50.0)
+    _, link = parse(four_bar_text(bar), "four-bar through the output's limit position")
+    travel = np.linspace(-40.0, 40.0, 81)
+    solved = solve_poses(link, TravelDrive(travel[:, None]))
+    assert solved.residual_max_mm.max() <= LENGTH_TOL_MM
+    t2, t3, t4 = _four_bar_angles(bar, link, solved.kin.points)
+    k1, k2, k3 = freudenstein_constants(bar.a, bar.b, bar.c, bar.d)
+    r2, r4 = np.radians(t2), np.radians(t4)
+    np.testing.assert_allclose(k1 * np.cos(r4) - k2 * np.cos(r2) + k3, np.cos(r2 - r4),
+                               rtol=0.0, atol=1e-9)
+    open4 = np.array([bar.open_theta4_deg(float(v)) for v in t2])
+    np.testing.assert_allclose(t4, open4, rtol=0.0, atol=1e-7)
+    # the crank and coupler line up inside the travel: the output angle turns back there
+    lined_up = np.sin(np.radians(t3 - t2))
+    assert lined_up.min() < 0.0 < lined_up.max()
+    assert 0 < int(np.argmin(t4)) < travel.size - 1
