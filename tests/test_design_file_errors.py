@@ -157,6 +157,7 @@ CASES: dict[str, Case] = {
     "parent body that does not exist": Case(
         _edit(('parent = "chassis"', 'parent = "chasis"')),
         "rockers.rocker_left.parent", r"no body 'chasis'", r"did you mean 'chassis'\?"),
+    # TOML v1.0.0: defining a key or a table more than once is invalid (from memory)
     "duplicate TOML key": Case(
         _edit(("od_mm = 16.0\nwall_mm = 1.2", "od_mm = 16.0\nod_mm = 18.0\nwall_mm = 1.2")),
         rf"line {_line_of('od_mm = 16.0' + chr(10) + 'wall_mm = 1.2') + 1}, column \d+",
