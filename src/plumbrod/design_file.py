@@ -275,6 +275,10 @@ def parse_design(text: str, source: str = "<design>") -> Design:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         message = str(exc)
+        if message.endswith("(at end of document)"):
+            lines = text.splitlines() or [""]
+            message = (f"{message[: -len('(at end of document)')].rstrip()} (at line "
+                       f"{len(lines)}, column {len(lines[-1]) + 1})")
         match = _TOML_POSITION.match(message)
         if match:
             what = match["what"].rstrip(".") or "invalid TOML"
@@ -347,7 +351,7 @@ class _DesignBuilder:
             note=note, top_speed_kmh=top_speed,
         )
         if mirror:
-            design = _mirrored(design, self.r)
+            design = _mirrored(design, self.r, self.pickup_where)
         self._check_references(design, mirror)
         self._check_geometry(design, mirror)
         return design
@@ -898,7 +902,7 @@ def _right(name: str) -> str:
     return name.replace("left", "right")
 
 
-def _mirrored(design: Design, reader: _Reader) -> Design:
+def _mirrored(design: Design, reader: _Reader, pickup_where: dict[str, str]) -> Design:
     """The design with a right-hand copy of every item whose name contains ``left``."""
     from dataclasses import replace
 
@@ -943,7 +947,9 @@ def _mirrored(design: Design, reader: _Reader) -> Design:
             new_key = _right(key)
             body, _, pname = new_key.rpartition(".")
             if new_key in pickups:
-                fail_twice("pickups", new_key)
+                reader.fail(pickup_where.get(new_key, new_key),
+                            f"mirror = true would make '{new_key}', which exists",
+                            f"remove the '{new_key}' entry or rename the left-hand one")
             pickups[new_key] = Pickup(body, pname, _flip(pickup.position_mm))
     rods = list(design.rods)
     for rod in design.rods:

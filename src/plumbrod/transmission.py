@@ -5,9 +5,8 @@ axis to the pickup, and the transmission angle ``mu`` is the angle between the a
 the rod, both seen in the body's plane of rotation (the classic four-bar definition,
 extended to 3D by projecting the rod onto that plane).  ``mu = 90°`` transmits best;
 ``mu`` near 0° or 180° is lock-up: the rod then lies in the plane of the axis and the
-arm and cannot turn the body.  The signed sine of ``mu`` tells the assembly branch: it
-changes sign only when the rocker passes through lock-up to its other assembly.  The
-rod's tilt out of the plane of rotation is reported beside it.
+arm and cannot turn the body.  The rod's tilt out of the plane of rotation is reported
+beside it.
 """
 
 from __future__ import annotations
@@ -17,7 +16,7 @@ from numpy.typing import NDArray
 
 from plumbrod.linkage import HINGE, Kinematics, Linkage, cross
 
-__all__ = ["assembly_signs", "hinged_rod_ends", "joint_labels", "transmission_angles"]
+__all__ = ["hinged_rod_ends", "joint_labels", "transmission_angles"]
 
 Array = NDArray[np.float64]
 
@@ -58,17 +57,6 @@ def _geometry(link: Linkage, kin: Kinematics) -> tuple[Array, Array, Array, Arra
     rod = kin.points[:, there] - pick
     rod_in_plane = rod - np.sum(rod * axis, axis=-1, keepdims=True) * axis
     return axis, arm, rod_in_plane, rod
-
-
-def assembly_signs(link: Linkage, kin: Kinematics) -> Array:
-    """(B, n) signed sine of the transmission angle at each hinged rod end."""
-    rods, _, _ = hinged_rod_ends(link)
-    if rods.size == 0:
-        return np.zeros((kin.points.shape[0], 0))
-    axis, arm, rod_p, _ = _geometry(link, kin)
-    norm = np.linalg.norm(arm, axis=-1) * np.linalg.norm(rod_p, axis=-1)
-    sine = np.sum(cross(axis, arm) * rod_p, axis=-1) / np.where(norm > 0, norm, 1.0)
-    return np.where(norm > 1e-12, sine, 0.0)
 
 
 def transmission_angles(link: Linkage, kin: Kinematics) -> tuple[Array, Array]:

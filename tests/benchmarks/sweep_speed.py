@@ -20,22 +20,22 @@ os.environ.setdefault("OPENBLAS_NUM_THREADS", "1")
 os.environ.setdefault("OMP_NUM_THREADS", "1")
 os.environ.setdefault("MKL_NUM_THREADS", "1")
 
-import argparse  # noqa: E402
-import statistics  # noqa: E402
-import subprocess  # noqa: E402
-import sys  # noqa: E402
-import time  # noqa: E402
-import warnings  # noqa: E402
-from pathlib import Path  # noqa: E402
+import argparse
+import statistics
+import subprocess
+import sys
+import time
+import warnings
+from pathlib import Path
 
-import numpy as np  # noqa: E402
-from scipy.optimize import fsolve  # noqa: E402
+import numpy as np
+from scipy.optimize import fsolve
 
-from plumbrod.design_file import parse_design  # noqa: E402
-from plumbrod.drives import BodyDrive, TravelDrive  # noqa: E402
-from plumbrod.linkage import Linkage, Pose, build_linkage, rotation_vector_matrix  # noqa: E402
-from plumbrod.solver import RESIDUAL_TOL_MM, evaluate, solve_poses  # noqa: E402
-from plumbrod.templates import BUNDLED_EXAMPLE, read_template  # noqa: E402
+from plumbrod.design_file import parse_design
+from plumbrod.drives import BodyDrive, TravelDrive
+from plumbrod.linkage import Linkage, Pose, build_linkage, rotation_vector_matrix
+from plumbrod.solver import RESIDUAL_TOL_MM, evaluate, solve_poses
+from plumbrod.templates import BUNDLED_EXAMPLE, read_template
 
 
 def timed(fn, repeats: int) -> tuple[float, object]:
@@ -61,7 +61,7 @@ def fsolve_each(link: Linkage, drive: TravelDrive | BodyDrive) -> float:
             return Pose(q[None, :nj], rotation_vector_matrix(free[:, 3:6])[None],
                         base.centre + free[None, :, 0:3])
 
-        def residual(q: np.ndarray) -> np.ndarray:
+        def residual(q: np.ndarray, one: TravelDrive | BodyDrive = one) -> np.ndarray:
             return evaluate(link, one, pose_of(q))[1][0]
 
         with warnings.catch_warnings():  # "not making good progress" near the optimum
