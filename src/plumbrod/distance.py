@@ -60,6 +60,7 @@ __all__ = [
 ]
 
 _CORE_MEETS_MM = 1e-11  # a capsule core closer than this to a zone counts as inside it
+_TIE_MM = 1e-9  # least_separations: poses that can only tie the best within this are skipped
 
 
 @dataclass(frozen=True, eq=False)
@@ -452,8 +453,11 @@ def least_separations(
        minus how far each solid can move between j and i (largest travel of its
        defining points), and the gap of the two solids' projections at pose i on the
        direction that separated them at j;
-    3. measure only the poses whose lower bound does not exceed the least distance
-       found (or 0, so that every possible interference is measured).
+    3. measure only the poses whose lower bound is below the least distance found
+       (or below 0, so that every possible interference is measured).
+
+    Poses whose bound is within 1e-9 mm of the least distance can only tie with it and
+    are not measured: when several poses tie, the one reported may not be the first.
     """
     n = _pose_count(pairs)
     step = sample_every if sample_every is not None else max(1, n // 48)
@@ -507,7 +511,9 @@ def least_separations(
     travel_l = np.stack([bounds[id(f)][0] + bounds[id(s)][0] for f, s in solid_ids])
     travel_r = np.stack([bounds[id(f)][1] + bounds[id(s)][1] for f, s in solid_ids])
     lower = np.maximum(sd_s[:, left] - travel_l, sd_s[:, right] - travel_r)
-    todo = lower <= threshold[:, None]
+    # poses bounded within _TIE_MM of the best could only tie with it: not measured
+    threshold = threshold - _TIE_MM
+    todo = lower < threshold[:, None]
     todo[:, samples] = False
 
     extra_sd: list[np.ndarray] = []
@@ -526,7 +532,7 @@ def least_separations(
         h_a, _ = parts.support((a[0], tuple(x[:, None] for x in a[1])), dirs)
         h_b, _ = parts.support((b[0], tuple(x[:, None] for x in b[1])), -dirs[:, :, None, :])
         gap = np.max(np.min(-h_b, axis=-1) - h_a, axis=1)
-        keep = gap <= threshold[pid]
+        keep = gap < threshold[pid]
         if not np.any(keep):
             continue
         local, pose, pid = local[keep], pose[keep], pid[keep]
