@@ -29,10 +29,13 @@ Distance (``distance_mm``) is surface to surface, mm.
   Against a cylinder they are the axis, radial and cross-product directions (exact for
   a point inside); against a non-convex prism, the directions of all its convex pieces,
   all pieces counted together.  ``point_a`` is then the point of A deepest towards B
-  along the chosen direction ``e`` and ``point_b = point_a + distance * e``.
+  along the chosen direction ``e``, and ``point_b`` the point of B nearest to
+  ``point_a + distance * e`` (where A's deepest point has to go).
 
-In every case ``point_b - point_a = distance_mm * e`` for a unit vector ``e`` pointing
-from A towards B.
+For separated solids, and for the exact overlaps of capsules described above,
+``point_b - point_a = distance_mm * e`` with ``e`` the unit vector from A towards B;
+for the other overlaps too whenever ``point_a + distance * e`` lies in B (a capsule
+end inside a box face, for example).
 
 References: C. Ericson, *Real-Time Collision Detection*, Morgan Kaufmann (2005),
 §5.1.9 (closest points of two segments); S. Gottschalk, M. C. Lin, D. Manocha, "OBBTree:
@@ -69,12 +72,16 @@ class Separation:
 
     ``distance_mm`` (...): surface to surface, negative when they overlap (then minus
     an interference depth); ``point_a``, ``point_b`` (..., 3): the closest points of
-    the first and second solid (deepest points when overlapping), chassis frame, mm.
+    the first and second solid (deepest points when overlapping), chassis frame, mm;
+    ``normal`` (..., 3): the unit direction ``e`` from A towards B along which the
+    distance is measured (moving A by ``distance_mm * normal`` closes a gap; when they
+    overlap, moving A by ``distance_mm * normal`` (backwards) separates them).
     """
 
     distance_mm: np.ndarray
     point_a: np.ndarray
     point_b: np.ndarray
+    normal: np.ndarray
 
 
 @dataclass(frozen=True, eq=False)
@@ -301,8 +308,9 @@ def _overlap_depth(
     """Least translation of A that separates the projections of A and of every piece of
     B, over candidate directions (an upper bound of the interference depth).
 
-    Returns (depth (N,), e_ab (N, 3) unit from A towards B, deepest point of A, point
-    of B = point_a - depth * e_ab); depth 0 where some candidate separates them.
+    Returns (depth (N,), e_ab (N, 3) unit from A towards B, the point of A deepest
+    along e_ab, the point of B nearest to that point moved back by the depth); depth 0
+    where some candidate separates them.
     """
     ka, arr_a = a
     kb, arr_b = b
@@ -333,7 +341,13 @@ def _overlap_depth(
     sign = np.where(forward[rows, k], -1.0, 1.0)
     e_ab = sign[:, None] * dirs[rows, k]
     _, deep_a = parts.support((ka, arr_a), e_ab)
-    deep_b = deep_a - best[:, None] * e_ab
+    # the point of B nearest to where A's deepest point must go
+    target = (deep_a - best[:, None] * e_ab)[:, None, :]
+    if kb == "prism":
+        near, gap = kern.point_prism(target, *arr_b)
+    else:
+        near, gap = kern.point_cyl(target, *arr_b)
+    deep_b = near[rows, np.argmin(gap, axis=1)]
     return best, e_ab, deep_a, deep_b
 
 
@@ -345,10 +359,11 @@ def separation(a: Solid, b: Solid) -> Separation:
     """
     first, second, swapped = _order(a, b)
     part_a, part_b, batch, _ = _parts_for(first, second)
-    sd, pa, pb, _ = _evaluate(_flatten(part_a, 0), _flatten(part_b, 1))
+    sd, pa, pb, e = _evaluate(_flatten(part_a, 0), _flatten(part_b, 1))
     if swapped:
-        pa, pb = pb, pa
-    return Separation(sd.reshape(batch), pa.reshape(*batch, 3), pb.reshape(*batch, 3))
+        pa, pb, e = pb, pa, -e
+    return Separation(sd.reshape(batch), pa.reshape(*batch, 3), pb.reshape(*batch, 3),
+                      e.reshape(*batch, 3))
 
 
 # ------------------------------------------------------------------ least over a sweep
