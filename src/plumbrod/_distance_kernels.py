@@ -239,26 +239,52 @@ def prism_prism(
     """Boundary-to-boundary closest points of two right convex prisms (N, …).
 
     ``a``, ``b``: (origin, axes, poly, edge_ok, zlo, zhi).  Exact when they are apart.
+    Vertex-solid distances come first; their best gives an upper bound u and a
+    direction e, and an edge pair is measured only when the gap of the two edges'
+    projections on e (a lower bound of their distance) is below u.
     """
     va = prism_vertices(a[0], a[1], a[2], a[4], a[5])
     vb = prism_vertices(b[0], b[1], b[2], b[4], b[5])
-    ea = prism_edge_index(a[2].shape[-2])
-    eb = prism_edge_index(b[2].shape[-2])
-    xs, ys, ds = seg_seg(
-        va[:, ea[:, 0], None], va[:, ea[:, 1], None], vb[:, None, eb[:, 0]], vb[:, None, eb[:, 1]]
-    )
     n = len(va)
-    xs = xs.reshape(n, -1, 3)
-    ys = ys.reshape(n, -1, 3)
-    ds = ds.reshape(n, -1)
+    rows = np.arange(n)
     yb, db = point_prism(va, *(_expand(arr) for arr in b))
     xa, da = point_prism(vb, *(_expand(arr) for arr in a))
-    x_all = np.concatenate([xs, va, xa], axis=1)
-    y_all = np.concatenate([ys, yb, vb], axis=1)
-    d_all = np.concatenate([ds, db, da], axis=1)
-    k = np.argmin(d_all, axis=1)
-    rows = np.arange(n)
-    return x_all[rows, k], y_all[rows, k], d_all[rows, k]
+    x_v = np.concatenate([va, xa], axis=1)
+    y_v = np.concatenate([yb, vb], axis=1)
+    d_v = np.concatenate([db, da], axis=1)
+    k = np.argmin(d_v, axis=1)
+    x, y, best = x_v[rows, k], y_v[rows, k], d_v[rows, k]
+    ea = prism_edge_index(a[2].shape[-2])
+    eb = prism_edge_index(b[2].shape[-2])
+    e, ok = _unit(y - x)
+    pa = np.einsum("nvk,nk->nv", va, e)
+    pb = np.einsum("nvk,nk->nv", vb, e)
+    top_a = np.maximum(pa[:, ea[:, 0]], pa[:, ea[:, 1]])
+    low_b = np.minimum(pb[:, eb[:, 0]], pb[:, eb[:, 1]])
+    keep = (low_b[:, None, :] - top_a[:, :, None] < best[:, None, None]) | ~ok[:, None, None]
+    r, ia, ib = np.nonzero(keep)
+    if r.size:
+        xs, ys, ds = seg_seg(va[r, ea[ia, 0]], va[r, ea[ia, 1]], vb[r, eb[ib, 0]],
+                             vb[r, eb[ib, 1]])
+        x, y, best = _merge_best(x, y, best, r, xs, ys, ds)
+    return x, y, best
+
+
+def _merge_best(
+    x: np.ndarray, y: np.ndarray, best: np.ndarray, r: np.ndarray, xs: np.ndarray,
+    ys: np.ndarray, ds: np.ndarray,
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Replace row r's (x, y, best) by candidates (xs, ys, ds) that are closer."""
+    order = np.lexsort((ds, r))
+    first = np.ones(len(order), bool)
+    first[1:] = r[order][1:] != r[order][:-1]
+    pick = order[first]
+    rows = r[pick]
+    better = ds[pick] < best[rows]
+    rows, pick = rows[better], pick[better]
+    x, y, best = x.copy(), y.copy(), best.copy()
+    x[rows], y[rows], best[rows] = xs[pick], ys[pick], ds[pick]
+    return x, y, best
 
 
 def _expand(arr: np.ndarray) -> np.ndarray:
@@ -388,16 +414,15 @@ def prism_cyl(
     """Boundary-to-boundary closest points of right convex prisms and cylinders (N, …).
 
     ``a``: (origin, axes, poly, edge_ok, zlo, zhi); ``c``: (c0, axis, length, radius).
-    Exact when they are apart.
+    Exact when they are apart.  Vertex and face candidates come first; their best gives
+    an upper bound u and a direction e, and an edge is measured only when the gap of
+    its projection and the cylinder's on e is below u.
     """
     origin, axes, poly, edge_ok, zlo, zhi = a
     n, m = poly.shape[:2]
+    rows = np.arange(n)
     va = prism_vertices(origin, axes, poly, zlo, zhi)
-    ei = prism_edge_index(m)
-    ne = len(ei)
-    rep = [np.repeat(arr, ne, axis=0) for arr in c]
-    xe, ye, de = seg_cyl(va[:, ei[:, 0]].reshape(-1, 3), va[:, ei[:, 1]].reshape(-1, 3), *rep)
-    xe, ye, de = xe.reshape(n, ne, 3), ye.reshape(n, ne, 3), de.reshape(n, ne)
+    yv, dv = point_cyl(va, *(arr[:, None] for arr in c))
     # faces: outward unit normals (n, m + 2, 3)
     edge, elen2, normal = prism_edges(poly)
     nlen = np.sqrt(np.where(edge_ok, elen2, 1.0))
@@ -428,12 +453,23 @@ def prism_cyl(
     ok = np.concatenate([side_ok, inside], axis=1)
     xf = yf - gap[..., None] * normals
     df = np.where(ok, np.abs(gap), np.inf)
-    x_all = np.concatenate([xe, xf], axis=1)
-    y_all = np.concatenate([ye, yf], axis=1)
-    d_all = np.concatenate([de, df], axis=1)
+    x_all = np.concatenate([va, xf], axis=1)
+    y_all = np.concatenate([yv, yf], axis=1)
+    d_all = np.concatenate([dv, df], axis=1)
     k = np.argmin(d_all, axis=1)
-    rows = np.arange(n)
-    return x_all[rows, k], y_all[rows, k], d_all[rows, k]
+    x, y, best = x_all[rows, k], y_all[rows, k], d_all[rows, k]
+    # edges that may come closer than the best so far
+    ei = prism_edge_index(m)
+    e, e_ok = _unit(y - x)
+    low_c = -support_cyl(*c, -e)[0]
+    pa = np.einsum("nvk,nk->nv", va, e)
+    top = np.maximum(pa[:, ei[:, 0]], pa[:, ei[:, 1]])
+    keep = (low_c[:, None] - top < best[:, None]) | ~e_ok[:, None]
+    r, ie = np.nonzero(keep)
+    if r.size:
+        xs, ys, ds = seg_cyl(va[r, ei[ie, 0]], va[r, ei[ie, 1]], *(arr[r] for arr in c))
+        x, y, best = _merge_best(x, y, best, r, xs, ys, ds)
+    return x, y, best
 
 
 # ------------------------------------------------------------------- support functions
