@@ -44,12 +44,23 @@ _TINY2 = 1e-24  # squared length (mm²) below which a segment is taken as a poin
 
 
 def _dot(a: np.ndarray, b: np.ndarray) -> np.ndarray:
-    return np.sum(a * b, axis=-1)
+    """Dot products over the last axis (einsum: much faster than sum over a short axis)."""
+    a, b = np.broadcast_arrays(a, b)
+    return np.einsum("...k,...k->...", a, b)
+
+
+def _dot2(a: np.ndarray, b: np.ndarray) -> np.ndarray:
+    """Dot products of 2D vectors (…, 2)."""
+    return a[..., 0] * b[..., 0] + a[..., 1] * b[..., 1]
+
+
+def _norm(v: np.ndarray) -> np.ndarray:
+    return np.sqrt(_dot(v, v))
 
 
 def _unit(v: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     """Unit vectors and a mask of the non-zero ones (zero vectors stay zero)."""
-    n = np.linalg.norm(v, axis=-1)
+    n = _norm(v)
     ok = n > 1e-300
     with np.errstate(invalid="ignore", divide="ignore"):
         out = np.where(ok[..., None], v / np.where(ok, n, 1.0)[..., None], 0.0)
@@ -93,7 +104,7 @@ def seg_seg(
     t = np.where(e_ok, t, 0.0)
     x = p0 + s[..., None] * d1
     y = q0 + t[..., None] * d2
-    return x, y, np.linalg.norm(y - x, axis=-1)
+    return x, y, _norm(y - x)
 
 
 # ----------------------------------------------------------------------------- prisms
@@ -104,7 +115,7 @@ def prism_edges(poly: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     of counter-clockwise polygons."""
     edge = np.roll(poly, -1, axis=-2) - poly
     normal = np.stack([edge[..., 1], -edge[..., 0]], axis=-1)
-    return edge, _dot(edge, edge), normal
+    return edge, _dot2(edge, edge), normal
 
 
 def polygon_project(
@@ -112,17 +123,19 @@ def polygon_project(
 ) -> np.ndarray:
     """Nearest point of a convex polygon (filled) to 2D points q (…, 2); polygon arrays
     broadcast against q with an extra vertex axis."""
-    w = q[..., None, :] - poly
+    qx, qy = q[..., 0, None], q[..., 1, None]
+    wx, wy = qx - poly[..., 0], qy - poly[..., 1]
+    ex, ey = edge[..., 0], edge[..., 1]
     with np.errstate(invalid="ignore", divide="ignore"):
-        s = np.clip(np.where(elen2 > 0, _dot(w, edge) / np.where(elen2 > 0, elen2, 1.0), 0.0),
-                    0.0, 1.0)
-    foot = poly + s[..., None] * edge
-    d2 = _dot(q[..., None, :] - foot, q[..., None, :] - foot)
-    cross = edge[..., 0] * w[..., 1] - edge[..., 1] * w[..., 0]
-    inside = np.all((cross >= 0.0) | ~edge_ok, axis=-1)
-    k = np.argmin(d2, axis=-1)
-    best = np.take_along_axis(foot, k[..., None, None], axis=-2)[..., 0, :]
-    return np.where(inside[..., None], q, best)
+        s = np.where(elen2 > 0, (wx * ex + wy * ey) / np.where(elen2 > 0, elen2, 1.0), 0.0)
+    np.clip(s, 0.0, 1.0, out=s)
+    fx, fy = poly[..., 0] + s * ex, poly[..., 1] + s * ey
+    d2 = (qx - fx) ** 2 + (qy - fy) ** 2
+    inside = np.all((ex * wy - ey * wx >= 0.0) | ~edge_ok, axis=-1)
+    k = np.argmin(d2, axis=-1)[..., None]
+    bx = np.take_along_axis(fx, k, axis=-1)[..., 0]
+    by = np.take_along_axis(fy, k, axis=-1)[..., 0]
+    return np.where(inside[..., None], q, np.stack([bx, by], axis=-1))
 
 
 def point_prism(
@@ -143,7 +156,7 @@ def point_prism(
     z = np.clip(local[..., 2], zlo, zhi)
     y = origin + q[..., 0, None] * axes[..., 0, :] + q[..., 1, None] * axes[..., 1, :]
     y = y + z[..., None] * axes[..., 2, :]
-    return y, np.linalg.norm(y - x, axis=-1)
+    return y, _norm(y - x)
 
 
 def seg_prism(
@@ -350,7 +363,7 @@ def _cyl_slope(
     cylinder."""
     h = h0 + t * dh
     rv = rho0 + t[..., None] * drho
-    rho = np.linalg.norm(rv, axis=-1)
+    rho = _norm(rv)
     er = np.maximum(rho - radius, 0.0)
     eh = np.where(h < 0.0, h, np.where(h > length, h - length, 0.0))
     radial = er > 0.0
@@ -401,11 +414,11 @@ def point_cyl(
     rel = x - c0
     h = _dot(rel, axis)
     rv = rel - h[..., None] * axis
-    rho = np.linalg.norm(rv, axis=-1)
+    rho = _norm(rv)
     with np.errstate(invalid="ignore", divide="ignore"):
         scale = np.where(rho > radius, radius / np.where(rho > 0, rho, 1.0), 1.0)
     y = c0 + np.clip(h, 0.0, length)[..., None] * axis + scale[..., None] * rv
-    return y, np.linalg.norm(y - x, axis=-1)
+    return y, _norm(y - x)
 
 
 def prism_cyl(
@@ -501,8 +514,8 @@ def support_cyl(
     along = np.where(ea > 0.0, length, np.where(ea < 0.0, 0.0, 0.5 * length))
     perp = e - ea[..., None] * axis
     perp = perp - _dot(perp, axis)[..., None] * axis
-    size = np.linalg.norm(perp, axis=-1)
-    flat = size <= 1e-12 * np.linalg.norm(e, axis=-1)  # e along the axis: a cap centre
+    size = _norm(perp)
+    flat = size <= 1e-12 * _norm(e)  # e along the axis: a cap centre
     with np.errstate(invalid="ignore", divide="ignore"):
         radial = np.where(flat[..., None], 0.0, perp / np.where(flat, 1.0, size)[..., None])
     point = c0 + along[..., None] * axis + radius[..., None] * radial

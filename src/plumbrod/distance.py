@@ -140,15 +140,16 @@ def _parts_for(a: Solid, b: Solid) -> tuple[parts.Part, parts.Part, tuple[int, .
             batch, count)
 
 
-def _own_parts(a: Solid, b: Solid) -> tuple[parts.Part, parts.Part, int]:
-    """Parts of an ordered pair, each broadcast to its own batch; b gets a piece axis."""
-    pa, _ = parts.part_of(a)
-    pb, b_pieces = parts.part_of(b)
-    if not b_pieces:
-        pb = parts.add_piece_axis(pb)
-    count = pb[1][0].shape[-1 - parts.CORE_NDIM[pb[0]][0]]
-    return (parts.broadcast_part(pa, a.batch_shape, None),
-            parts.broadcast_part(pb, b.batch_shape, count), count)
+def _own_part(solid: Solid, second: bool) -> tuple[parts.Part, int]:
+    """A solid's part broadcast to its own batch; as the second of a pair it gets a
+    piece axis.  Returns the part and its piece count."""
+    part, has_pieces = parts.part_of(solid)
+    if not second:
+        return parts.broadcast_part(part, solid.batch_shape, None), 1
+    if not has_pieces:
+        part = parts.add_piece_axis(part)
+    count = part[1][0].shape[-1 - parts.CORE_NDIM[part[0]][0]]
+    return parts.broadcast_part(part, solid.batch_shape, count), count
 
 
 # ------------------------------------------------------------------------- evaluation
@@ -401,6 +402,25 @@ class _Group:
         self.a_idx = np.asarray(self.a_index)
         self.b_idx = np.asarray(self.b_index)
         self.ids = np.asarray(self.pair_ids)
+        kind, arr = self.a_stack
+        self.a_verts = (
+            kern.prism_vertices(arr[0], arr[1], arr[2], arr[4], arr[5]) if kind == "prism"
+            else None
+        )
+
+    def support_a(self, local: np.ndarray, pose: np.ndarray, e: np.ndarray) -> np.ndarray:
+        """Support values (r, k) of the first solids of pairs ``local`` at ``pose`` along
+        unit directions e (r, k, 3)."""
+        solid = self.a_idx[local]
+        at = pose if self.a_moving else np.zeros_like(pose)
+        if self.a_verts is not None:
+            verts = self.a_verts[solid, at]  # (r, V, 3)
+            return np.max(np.einsum("rvj,rkj->rkv", verts, e), axis=-1)
+        _, arr = self.a_stack
+        p0, p1, radius = (x[solid, at] for x in arr)
+        h0 = np.einsum("rj,rkj->rk", p0, e)
+        h1 = np.einsum("rj,rkj->rk", p1, e)
+        return np.maximum(h0, h1) + radius[:, None]
 
     def _stack(self, plist: list[parts.Part], extra: int) -> tuple[parts.Part, bool]:
         kind = plist[0][0]
@@ -488,9 +508,14 @@ def least_separations(
     groups: dict[tuple, _Group] = {}
     swapped = np.zeros(len(pairs), bool)
     solid_ids: list[tuple[Solid, Solid]] = []
+    cache: dict[tuple[int, bool], tuple[parts.Part, int]] = {}
     for i, (a, b) in enumerate(pairs):
         first, second, swapped[i] = _order(a, b)
-        pa, pb, count = _own_parts(first, second)
+        for solid, role in ((first, False), (second, True)):
+            if (id(solid), role) not in cache:
+                cache[id(solid), role] = _own_part(solid, role)
+        pa, _ = cache[id(first), False]
+        pb, count = cache[id(second), True]
         m_a = pa[1][2].shape[-2] if pa[0] == "prism" else 0
         m_b = pb[1][2].shape[-2] if pb[0] == "prism" else 0
         key = (pa[0], pb[0], m_a, m_b, count)
@@ -504,11 +529,16 @@ def least_separations(
     pa_s = np.empty((npairs, ns, 3))
     pb_s = np.empty((npairs, ns, 3))
     e_s = np.empty((npairs, ns, 3))
+    low_b_s = np.empty((npairs, ns))  # min over B of e·y at the samples (fixed zones)
     for group in groups.values():
         g = len(group.ids)
         local = np.repeat(np.arange(g), ns)
         pose = np.tile(samples, g)
-        sd, pa, pb, e = _evaluate(*group.gather(local, pose))
+        part_a, part_b = group.gather(local, pose)
+        sd, pa, pb, e = _evaluate(part_a, part_b)
+        if not group.b_moving:
+            h_b, _ = parts.support(part_b, -e[:, None, :])
+            low_b_s[group.ids] = np.min(-h_b, axis=1).reshape(g, ns)
         sd_s[group.ids] = sd.reshape(g, ns)
         pa_s[group.ids] = pa.reshape(g, ns, 3)
         pb_s[group.ids] = pb.reshape(g, ns, 3)
@@ -541,19 +571,23 @@ def least_separations(
         if local.size == 0:
             continue
         pid = group.ids[local]
-        a, b = group.gather(local, pose)
         # lower bound from the separating directions found at the neighbouring samples
-        dirs = np.stack([e_s[pid, left[pose]], e_s[pid, right[pose]]], axis=1)  # (r, 2, 3)
-        h_a, _ = parts.support((a[0], tuple(x[:, None] for x in a[1])), dirs)
-        h_b, _ = parts.support((b[0], tuple(x[:, None] for x in b[1])), -dirs[:, :, None, :])
-        gap = np.max(np.min(-h_b, axis=-1) - h_a, axis=1)
+        jl, jr = left[pose], right[pose]
+        dirs = np.stack([e_s[pid, jl], e_s[pid, jr]], axis=1)  # (r, 2, 3)
+        h_a = group.support_a(local, pose, dirs)
+        if group.b_moving:
+            _, b = group.gather(local, pose)
+            h_b, _ = parts.support((b[0], tuple(x[:, None] for x in b[1])),
+                                   -dirs[:, :, None, :])
+            low_b = np.min(-h_b, axis=-1)
+        else:
+            low_b = np.stack([low_b_s[pid, jl], low_b_s[pid, jr]], axis=1)
+        gap = np.max(low_b - h_a, axis=1)
         keep = gap < threshold[pid]
         if not np.any(keep):
             continue
         local, pose, pid = local[keep], pose[keep], pid[keep]
-        a = (a[0], tuple(x[keep] for x in a[1]))
-        b = (b[0], tuple(x[keep] for x in b[1]))
-        sd, pa, pb, _ = _evaluate(a, b)
+        sd, pa, pb, _ = _evaluate(*group.gather(local, pose))
         extra_sd.append(sd)
         extra_pa.append(pa)
         extra_pb.append(pb)
