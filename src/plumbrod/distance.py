@@ -437,6 +437,26 @@ class _Group:
             arrays.append(np.stack(items))
         return (kind, tuple(arrays)), moving
 
+    def low_b(self, local: np.ndarray, pose: np.ndarray, e: np.ndarray) -> np.ndarray:
+        """Least projection min(e·y) (r, k) of the second solids of pairs ``local`` at
+        ``pose`` on unit directions e (r, k, 3)."""
+        solid = self.b_idx[local]
+        at = pose if self.b_moving else np.zeros_like(pose)
+        kind, arr = self.b_stack
+        if kind == "seg":
+            p0, p1, radius = (x[solid, at, 0] for x in arr)
+            h0 = np.einsum("rj,rkj->rk", p0, e)
+            h1 = np.einsum("rj,rkj->rk", p1, e)
+            return np.minimum(h0, h1) - radius[:, None]
+        if kind == "cyl":
+            c0, axis, length, radius = (x[solid, at, 0] for x in arr)
+            h, _ = kern.support_cyl(c0[:, None], axis[:, None], length[:, None],
+                                    radius[:, None], -e)
+            return -h
+        b = (kind, tuple(x[solid, at][:, None] for x in arr))
+        h, _ = parts.support(b, -e[:, :, None, :])
+        return np.min(-h, axis=-1)
+
     def gather(self, local: np.ndarray, pose: np.ndarray) -> tuple[parts.Part, parts.Part]:
         """Parts for pairs ``local`` (indices into this group) at poses ``pose``."""
         pa = pose if self.a_moving else np.zeros_like(pose)
@@ -518,7 +538,7 @@ def least_separations(
         pb, count = cache[id(second), True]
         m_a = pa[1][2].shape[-2] if pa[0] == "prism" else 0
         m_b = pb[1][2].shape[-2] if pb[0] == "prism" else 0
-        key = (pa[0], pb[0], m_a, m_b, count)
+        key = (pa[0], pb[0], m_a, m_b, count, bool(second.batch_shape))
         groups.setdefault(key, _Group(key, n)).add(i, first, second, pa, pb)
         solid_ids.append((first, second))
     for group in groups.values():
@@ -576,10 +596,7 @@ def least_separations(
         dirs = np.stack([e_s[pid, jl], e_s[pid, jr]], axis=1)  # (r, 2, 3)
         h_a = group.support_a(local, pose, dirs)
         if group.b_moving:
-            _, b = group.gather(local, pose)
-            h_b, _ = parts.support((b[0], tuple(x[:, None] for x in b[1])),
-                                   -dirs[:, :, None, :])
-            low_b = np.min(-h_b, axis=-1)
+            low_b = group.low_b(local, pose, dirs)
         else:
             low_b = np.stack([low_b_s[pid, jl], low_b_s[pid, jr]], axis=1)
         gap = np.max(low_b - h_a, axis=1)
