@@ -656,3 +656,23 @@ def test_bad_inputs_raise(make, match):
         make()
     with pytest.raises(ValueError):
         make()
+
+
+def test_segment_prism_kernels_agree():
+    # two independent exact methods inside the package (edge features with clipping, and
+    # the break points of the squared distance along the segment) must agree
+    from plumbrod import _distance_kernels as kern
+
+    rng = np.random.default_rng(11)
+    n, m = 4000, 5
+    ang = np.sort(rng.uniform(0, 2 * np.pi, (n, m)), axis=1)
+    poly = np.stack([np.cos(ang), np.sin(ang)], -1) * rng.uniform(5, 15, (n, 1, 1))
+    origin = rng.normal(size=(n, 3)) * 5
+    axes = Rotation.random(n, random_state=1).as_matrix()
+    ok = np.ones((n, m), bool)
+    zlo, zhi = -rng.uniform(0.5, 5, n), rng.uniform(0.5, 5, n)
+    p0 = rng.normal(size=(n, 3)) * 20
+    p1 = p0 + rng.normal(size=(n, 3)) * rng.choice([0.0, 1e-9, 1.0, 20.0], (n, 1))
+    _, _, d1 = kern.seg_prism(p0, p1, origin, axes, poly, ok, zlo, zhi)
+    _, _, d2 = kern.seg_prism_slopes(p0, p1, origin, axes, poly, ok, zlo, zhi)
+    np.testing.assert_allclose(d1, d2, atol=1e-9)

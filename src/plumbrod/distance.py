@@ -473,9 +473,11 @@ def _motion_bounds(solid: Solid, reference: np.ndarray) -> np.ndarray:
     if keys is None:
         return np.zeros(len(reference))
     pts, lengths, turn = keys
-    move = np.max(np.linalg.norm(pts - pts[reference], axis=-1), axis=-1)
+    step = pts - pts[reference]
+    move = np.sqrt(np.max(np.einsum("nkj,nkj->nk", step, step), axis=-1))
     move = move + np.abs(lengths - lengths[reference])
-    return move + np.linalg.norm(turn - turn[reference], axis=-1)
+    turned = turn - turn[reference]
+    return move + np.sqrt(np.einsum("nj,nj->n", turned, turned))
 
 
 def _pose_count(pairs: Sequence[tuple[Solid, Solid]]) -> int:
