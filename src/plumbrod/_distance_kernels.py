@@ -16,15 +16,19 @@ Methods (all exact for separated parts, up to rounding):
   (2005), §5.1.9.
 - point-prism: the prism is the Cartesian product of a convex polygon and an interval,
   so the nearest point is (nearest polygon point, clamped depth).
-- segment-prism and segment-cylinder: the squared distance from the point x(t) of the
-  segment to a convex set is a convex C¹ function of t.  Its derivative changes form
-  only at known break points (where x(t) crosses an edge line, an edge-end normal line,
-  a cap plane, the cylinder surface); the minimum lies where the derivative changes
-  sign.  For the prism the derivative is linear between break points (linear
-  interpolation is exact); for the cylinder a safeguarded Newton iteration in the
-  bracketing interval converges to machine precision.
+- segment-prism: a segment that misses the prism (clipped by the faces' half-spaces,
+  Cyrus and Beck 1978) is closest at an end point or against a prism edge
+  (:func:`seg_prism`).  A second method cross-checks it (:func:`seg_prism_slopes`).
+- segment-cylinder (and the second segment-prism method): the squared distance from
+  the point x(t) of the segment to a convex set is a convex C¹ function of t.  Its
+  derivative changes form only at known break points (where x(t) crosses an edge
+  line, an edge-end normal line, a cap plane, the cylinder surface); the minimum lies
+  where the derivative changes sign.  For the prism the derivative is linear between
+  break points (linear interpolation is exact); for the cylinder a safeguarded Newton
+  iteration in the bracketing interval converges to machine precision.
 - prism-prism: the closest points of two convex polyhedra lie on an edge pair or on a
-  vertex and the other solid, so the least of all edge-edge and vertex-solid distances.
+  vertex and the other solid, so the least of the edge-edge and vertex-solid
+  distances (edge pairs that cannot beat the best vertex are skipped).
 - prism-cylinder: the least of the prism edges to the cylinder and of each prism face
   to the cylinder's support point in the direction opposite to the face normal (taken
   only when that point lies over the face).

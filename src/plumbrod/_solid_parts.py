@@ -109,12 +109,6 @@ def take(part: Part, index: tuple[np.ndarray, ...]) -> Part:
     return kind, tuple(a[index] for a in arrays)
 
 
-def expand(part: Part, axis: int) -> Part:
-    """Insert a length-1 axis at ``axis`` (counted on the batch axes) of every array."""
-    kind, arrays = part
-    return kind, tuple(np.expand_dims(a, axis) for a in arrays)
-
-
 def support(part: Part, e: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     """Support value max(e·x) and a support point along unit directions e (…, 3)."""
     kind, arr = part
