@@ -96,8 +96,10 @@ CASES: dict[str, Case] = {
         r"check the quotes, brackets, commas"),
     "invalid TOML: array left open at the end of the file": Case(
         _edit(("steps = [41, 41]", "steps = [41, 41")),
-        # where the array opens, or the end of the file where tomllib notices it
-        rf"line ({_line_of('steps = [41, 41]')}|{BASE.count(chr(10)) + 1}), column \d+",
+        # a line from where the array opens to the end of the file: where tomllib
+        # notices it cannot go on
+        "line (" + "|".join(str(n) for n in range(_line_of("steps = [41, 41]"),
+                                                    BASE.count(chr(10)) + 2)) + r"), column \d+",
         r"invalid TOML: unclosed array", r"bracket"),
     "unknown key": Case(
         _edit(("mass_kg = 7.5", "mass_kgg = 7.5")),

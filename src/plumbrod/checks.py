@@ -15,6 +15,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from plumbrod.analysis import Analysis
+from plumbrod.clearance import ClearanceReport, clearance_report
 from plumbrod.compliance import ComplianceReport, compliance_report
 from plumbrod.structure import RodReserve, rod_reserves
 
@@ -342,11 +343,42 @@ def check_compliance(analysis: Analysis, report: ComplianceReport) -> CheckResul
                        f"'{case}'", f"vertical stiffness at the route pickups: {stiff}")
 
 
+def check_clearance(analysis: Analysis, report: ClearanceReport) -> CheckResult:
+    title = "Clearance of rods and rockers to zones, tyres and each other"
+    default = analysis.design.limits.clearance_mm
+    if not report.pairs:
+        return CheckResult("clearance", title, "pass", None, default, "mm",
+                           "no pair to measure", "; ".join(report.skipped), True)
+    worst = report.pairs[0]
+    if worst.exact:
+        where = (f"{worst.a} to {worst.b} in {_pose(analysis, worst.sweep, worst.pose)}, "
+                 f"points {_point(worst.point_a)} and {_point(worst.point_b)}")
+    else:
+        where = f"{worst.a} to {worst.b}: more than {worst.distance_mm:.0f} mm at every pose"
+    used = worst.limit_mm / worst.distance_mm if worst.distance_mm > 0 else np.inf
+    closest = "; ".join(
+        f"{p.a} to {p.b} {'' if p.exact else 'more than '}{p.distance_mm:.1f} mm "
+        f"(limit {p.limit_mm:g})" for p in report.pairs[:5])
+    detail = f"closest pairs over {report.poses} poses: {closest}"
+    if worst.distance_mm < 0:
+        detail = f"INTERFERENCE {-worst.distance_mm:.1f} mm deep; " + detail
+    if report.skipped:
+        detail += "; " + "; ".join(report.skipped)
+    return CheckResult("clearance", title, status_of(used), worst.distance_mm, worst.limit_mm,
+                       "mm", where, detail, True)
+
+
+def _point(p: tuple[float, float, float]) -> str:
+    return "(" + ", ".join(f"{v:.1f}" for v in p) + ")"
+
+
 def evaluate_checks(analysis: Analysis, reserves: dict[str, RodReserve] | None = None,
-                    compliance: ComplianceReport | None = None) -> list[CheckResult]:
+                    compliance: ComplianceReport | None = None,
+                    clearance: ClearanceReport | None = None) -> list[CheckResult]:
     """Every check, in a fixed order (pass precomputed parts to avoid doing them twice)."""
     reserves = rod_reserves(analysis) if reserves is None else reserves
     compliance = compliance_report(analysis) if compliance is None else compliance
+    clearance = clearance_report(analysis) if clearance is None else clearance
     return [
         check_route_ratio(analysis),
         check_line_of_action(analysis),
@@ -357,4 +389,5 @@ def evaluate_checks(analysis: Analysis, reserves: dict[str, RodReserve] | None =
         check_buckling(analysis, reserves),
         check_tension(analysis, reserves),
         check_compliance(analysis, compliance),
+        check_clearance(analysis, clearance),
     ]

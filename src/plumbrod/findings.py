@@ -7,6 +7,7 @@ from dataclasses import dataclass
 
 from plumbrod.analysis import Analysis, analyse
 from plumbrod.checks import CheckResult, evaluate_checks
+from plumbrod.clearance import ClearanceReport, clearance_report
 from plumbrod.compliance import ComplianceReport, compliance_report
 from plumbrod.mass import MassReport, mass_report
 from plumbrod.model import Design
@@ -22,6 +23,11 @@ class Findings:
     reserves: dict[str, RodReserve]
     mass: MassReport
     compliance: ComplianceReport
+    clearance: ClearanceReport
+
+    def clearance_margin_mm(self, rod: str) -> float:
+        """How much a rod's radius may grow before a clearance limit is reached (mm)."""
+        return self.clearance.rod_margin_mm.get(rod, float("inf"))
 
 
 def review(design: Design) -> Findings:
@@ -29,5 +35,6 @@ def review(design: Design) -> Findings:
     analysis = analyse(design)
     reserves = rod_reserves(analysis)
     compliance = compliance_report(analysis)
-    checks = evaluate_checks(analysis, reserves, compliance)
-    return Findings(analysis, checks, reserves, mass_report(analysis), compliance)
+    clearance = clearance_report(analysis)
+    checks = evaluate_checks(analysis, reserves, compliance, clearance)
+    return Findings(analysis, checks, reserves, mass_report(analysis), compliance, clearance)

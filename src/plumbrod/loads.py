@@ -22,6 +22,7 @@ from numpy.typing import NDArray
 from plumbrod.linkage import Linkage
 from plumbrod.members import Member
 from plumbrod.model import Design, Element, LoadCase
+from plumbrod.plates import rocker_mass_kg
 from plumbrod.routes import RouteMap
 
 __all__ = [
@@ -139,12 +140,13 @@ def applied_loads(design: Design, link: Linkage, members: dict[str, Member],
         add(f"{element.name} mass", element.name, element.cg_mm, e,
             [_inertia(element.mass_kg, c) for c in cases])
     for rocker in design.rockers:
-        if not rocker.mass_kg:
+        mass = rocker_mass_kg(design, rocker)
+        if not mass:
             continue
         picks = [p.position_mm for p in design.pickups.values() if p.body == rocker.name]
         centroid = tuple(float(v) for v in np.mean(picks, axis=0)) if picks else rocker.axis_a_mm
         add(f"{rocker.name} mass", rocker.name, centroid,  # type: ignore[arg-type]
-            owner_of_body.get(rocker.name, 0), [_inertia(rocker.mass_kg, c) for c in cases])
+            owner_of_body.get(rocker.name, 0), [_inertia(mass, c) for c in cases])
     for rod in design.rods:
         half = members[rod.name].mass_kg / 2.0
         for end in (rod.end_a, rod.end_b):

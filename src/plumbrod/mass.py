@@ -6,10 +6,10 @@
   bodies for a unit wheel speed, in single-wheel bump (that corner alone) and in heave
   (every wheel together; the total divided among the corners).
 
-Approximations, stated in the report: a rocker is a point mass at the centroid of its
-pickups; a rod is uniform (its kinetic energy from its end velocities); an element
-without ``inertia_kg_m2`` is a uniform block spanning its pickups, cg and centre of
-pressure.
+Approximations, stated in the report: a rocker is a point mass (its ``mass_kg``, or its
+plate's mass) at the centroid of its pickups; a rod is uniform (its kinetic energy from
+its end velocities); an element without ``inertia_kg_m2`` is a uniform block spanning
+its pickups, cg and centre of pressure.
 """
 
 from __future__ import annotations
@@ -23,6 +23,7 @@ from plumbrod.analysis import Analysis
 from plumbrod.drives import TravelDrive
 from plumbrod.loads import STANDARD_GRAVITY_M_S2, applied_loads
 from plumbrod.model import Element, LoadCase
+from plumbrod.plates import rocker_mass_kg
 from plumbrod.statics import solve_statics
 from plumbrod.sweeps import SweepSpec, run_sweep
 
@@ -72,7 +73,7 @@ def mass_report(analysis: Analysis) -> MassReport:
     design, link = analysis.design, analysis.link
     bodies: dict[str, float] = {e.name: e.mass_kg for e in design.elements}
     for rocker in design.rockers:
-        bodies[rocker.name] = rocker.mass_kg or 0.0
+        bodies[rocker.name] = rocker_mass_kg(design, rocker)
     for rod in design.rods:
         bodies[rod.name] = analysis.members[rod.name].mass_kg
 
@@ -114,9 +115,10 @@ def _kinetic_mass(analysis: Analysis, kin: object, dq: Array) -> float:
         twist = kin.body_twists(link, np.array([b]))[0, 0] @ dq
         inertia, _ = element_inertia(analysis, element)
         w = twist[3:6]
-        total += element.mass_kg * float(v @ v) + float(w @ inertia @ w) * 1e-6
+        total += element.mass_kg * float(v @ v) + float(w @ inertia @ w)  # kg·mm² · (rad/mm)²
     for rocker in design.rockers:
-        if not rocker.mass_kg:
+        mass = rocker_mass_kg(design, rocker)
+        if not mass:
             continue
         picks = [p.position_mm for p in design.pickups.values() if p.body == rocker.name]
         if not picks:
@@ -125,7 +127,7 @@ def _kinetic_mass(analysis: Analysis, kin: object, dq: Array) -> float:
         b = link.body(rocker.name)
         moved = (kin.rotation[0, b] @ centre) + kin.translation[0, b]
         v = kin.jacobian_at(link, np.array([b]), moved[None, None])[0, 0] @ dq
-        total += rocker.mass_kg * float(v @ v)
+        total += mass * float(v @ v)
     for rod in design.rods:
         ends = np.array([link.point(rod.end_a), link.point(rod.end_b)])
         va, vb = kin.point_jacobian(link, ends)[0] @ dq

@@ -17,7 +17,10 @@ from plumbrod.analysis import Analysis
 from plumbrod.columns import critical_load_N, tension_capacity_N, transition_slenderness
 from plumbrod.members import Member
 
-__all__ = ["RodReserve", "WorstForce", "capacity", "rod_reserves"]
+__all__ = ["FORCE_FLOOR_N", "RodReserve", "WorstForce", "capacity", "rod_reserves"]
+
+FORCE_FLOOR_N = 1e-6
+"""Forces smaller than this count as zero (round-off of an unloaded rod)."""
 
 
 @dataclass(frozen=True)
@@ -81,10 +84,10 @@ def rod_reserves(analysis: Analysis) -> dict[str, RodReserve]:
         for sweep, st in analysis.statics.items():
             f = st.rod_force_N[..., j]  # (B, K)
             b, k = np.unravel_index(int(np.argmin(f)), f.shape)
-            if f[b, k] < 0 and (comp is None or f[b, k] < comp.force_N):
+            if f[b, k] < -FORCE_FLOOR_N and (comp is None or f[b, k] < comp.force_N):
                 comp = WorstForce(float(f[b, k]), sweep, int(b), st.cases[k])
             b, k = np.unravel_index(int(np.argmax(f)), f.shape)
-            if f[b, k] > 0 and (tens is None or f[b, k] > tens.force_N):
+            if f[b, k] > FORCE_FLOOR_N and (tens is None or f[b, k] > tens.force_N):
                 tens = WorstForce(float(f[b, k]), sweep, int(b), st.cases[k])
         out[rod.name] = RodReserve(rod.name, p_cr, regime, slender, lam_t, cap, comp, tens)
     return out

@@ -21,7 +21,8 @@ def register(subparsers: Any) -> None:
             "worst pose and load case (and its clearance, when the design has zones). "
             "Writes a new design file next to the input (never overwrites it), re-checks "
             "it, and prints a before/after table with masses. Exit 1 when a rod has no "
-            "adequate section."
+            "adequate section (the copy is still written, that rod unchanged) or the sized "
+            "copy fails a check."
         ),
         epilog=CAUTION,
     )
@@ -66,18 +67,18 @@ def run(args: argparse.Namespace) -> int:
             if m not in table:
                 raise UsageError("--materials", f"unknown material '{m}'",
                                  "see `plumbrod column --list-materials`")
+    target = Path(args.output) if args.output else _free_name(source)
+    if target.resolve() == source.resolve():
+        raise UsageError("--output", "would overwrite the input design",
+                         "give another file name")
     findings = review(design)
     if not findings.analysis.statics:
         raise UsageError(args.design, "the design has no load case, so nothing to size for",
                          "give [design] top_speed_kmh with element aero data, or [load_cases]")
     text = source.read_text(encoding="utf-8")
     entries = list(tomllib.loads(text).get("rods", {}))
-    margin = getattr(findings, "clearance_margin_mm", None)
-    choices = choose_sections(findings, entries, materials, args.system, margin)
-    target = Path(args.output) if args.output else _free_name(source)
-    if target.resolve() == source.resolve():
-        raise UsageError("--output", "would overwrite the input design",
-                         "give another file name")
+    choices = choose_sections(findings, entries, materials, args.system,
+                              findings.clearance_margin_mm)
     try:
         new_text = apply_sizes(text, choices)
     except ValueError as exc:
