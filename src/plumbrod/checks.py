@@ -3,6 +3,8 @@
 Every check gives ``pass``, ``warn`` or ``fail``.  A check warns when its worst value
 uses more than :data:`WARN_FRACTION` of the allowance (so a design close to a limit is
 flagged before it fails), and when it cannot be computed (a sweep it needs is off).
+``ride-height-sensitivity`` also warns when the element's ride height moves more in roll
+or pitch than it would bolted to the chassis.
 Check ids are fixed: ``route-ratio``, ``line-of-action``, ``transmission-angle``,
 ``ride-height-sensitivity`` (later: ``member-force``, ``sprung-leakage``, ``buckling``,
 ``tension``, ``compliance``, ``clearance``).
@@ -22,6 +24,10 @@ from plumbrod.structure import RodReserve, rod_reserves
 __all__ = ["WARN_FRACTION", "CheckResult", "evaluate_checks", "status_of"]
 
 WARN_FRACTION = 0.8
+WORSE_THAN_BOLTED = 1.1
+WORSE_FLOOR_MM_PER_DEG = 0.2
+"""Ride height that moves more in roll or pitch than this times the bolted figure, and by
+more than the floor, warns."""
 
 
 @dataclass(frozen=True)
@@ -173,6 +179,7 @@ def check_ride_height(analysis: Analysis) -> CheckResult:
             i = int(np.argmax(np.abs(s)))
             if abs(s[i]) > worst[0]:
                 worst = (float(abs(s[i])), element, sweep, i, float(s[i]))
+    worse: list[str] = []
     for sweep, key, unit in (("heave", "heave", "mm/mm"), ("roll", "roll", "mm/deg"),
                              ("pitch", "pitch", "mm/deg")):
         fig = analysis.figures.get(sweep)
@@ -183,14 +190,22 @@ def check_ride_height(analysis: Analysis) -> CheckResult:
             b = rh.bolted_sensitivity[key]
             details.append(f"{element} {key}: {s.min():+.3f} to {s.max():+.3f} {unit} "
                            f"(bolted {b.min():+.3f} to {b.max():+.3f})")
+            route, bolted = float(np.abs(s).max()), float(np.abs(b).max())
+            if key != "heave" and route > max(WORSE_THAN_BOLTED * bolted,
+                                              bolted + WORSE_FLOOR_MM_PER_DEG):
+                worse.append(f"{element} moves more in {key} ({route:.2f} {unit}) than if it "
+                             f"were bolted to the chassis ({bolted:.2f} {unit})")
     if worst[0] < 0:
         return CheckResult("ride-height-sensitivity", title, "warn", None, limit, "mm/mm",
                            "not computed: the heave sweep is off",
                            "enable [sweeps.heave] to check it")
     used, element, sweep, i, value = worst
-    return CheckResult("ride-height-sensitivity", title, status_of(used / limit), value, limit,
+    status = status_of(used / limit)
+    if worse and status == "pass":
+        status = "warn"
+    return CheckResult("ride-height-sensitivity", title, status, value, limit,
                        "mm/mm", f"element '{element}' in {_pose(analysis, sweep, i)}",
-                       "; ".join(details))
+                       "; ".join([*worse, *details]))
 
 
 def check_member_force(analysis: Analysis) -> CheckResult:

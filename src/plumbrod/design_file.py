@@ -191,6 +191,13 @@ class _Reader:
         a, b = self.numbers(value, key, 2, f"a point {view} in mm (planar {self.plane} view)")
         return _lift(a, b, self.plane)
 
+    def zone_point(self, value: Any, key: str) -> Vec3:
+        """A zone's point: always [x, y, z]; a planar design also takes its view's two."""
+        if self.plane is not None and isinstance(value, list) and len(value) == 2:
+            return self.point(value, key)
+        x, y, z = self.numbers(value, key, 3, "a point [x, y, z] in mm")
+        return (x, y, z)
+
     def range_(self, value: Any, key: str) -> tuple[float, float]:
         lo, hi = self.numbers(value, key, 2, "a range [from, to]")
         if not lo < hi:
@@ -723,7 +730,7 @@ class _DesignBuilder:
             if kind == "box":
                 r.keys(ztable, key, (*shared, "centre_mm", "size_mm", "rotation_deg"),
                        required=("centre_mm", "size_mm"))
-                params["centre_mm"] = r.point(ztable["centre_mm"], f"{key}.centre_mm")
+                params["centre_mm"] = r.zone_point(ztable["centre_mm"], f"{key}.centre_mm")
                 size = r.numbers(ztable["size_mm"], f"{key}.size_mm", 3, "[lx, ly, lz] in mm")
                 for i, s in enumerate(size):
                     if s <= 0:
@@ -740,8 +747,8 @@ class _DesignBuilder:
                 if not isinstance(axis, list) or len(axis) != 2:
                     r.fail(f"{key}.axis_mm", f"expected the two end points, got {_shown(axis)}",
                            "write [[x, y, z], [x, y, z]]")
-                a = r.point(axis[0], f"{key}.axis_mm[0]")
-                b = r.point(axis[1], f"{key}.axis_mm[1]")
+                a = r.zone_point(axis[0], f"{key}.axis_mm[0]")
+                b = r.zone_point(axis[1], f"{key}.axis_mm[1]")
                 if _norm(_sub(a, b)) < MIN_LENGTH_MM:
                     r.fail(f"{key}.axis_mm", "the two end points coincide",
                            "give two distinct points")

@@ -22,6 +22,8 @@ from plumbrod.members import Member
 __all__ = ["as_json", "as_text", "verdict"]
 
 _SIGNIFICANT = 6
+CLOSEST_SHOWN = 5
+"""Closest clearance pairs listed in the text report."""
 
 
 def verdict(checks: Sequence[CheckResult]) -> str:
@@ -150,6 +152,17 @@ def as_text(findings: Findings) -> str:
     if findings.reserves and analysis.statics:
         lines += ["", "members (worst over every sweep and load case; force + tension)"]
         lines += _table(member_rows(findings))
+    if findings.clearance.pairs:
+        lines += ["", f"closest pairs over {findings.clearance.poses} poses (mm; negative = "
+                  "interference depth)"]
+        rows = [("solid", "against", "distance", "limit", "where")]
+        for p in findings.clearance.pairs[:CLOSEST_SHOWN]:
+            where = (f"sweep '{p.sweep}' at {analysis.sweeps[p.sweep].spec.describe(p.pose)}"
+                     if p.exact else "every pose (bound)")
+            dist = f"{p.distance_mm:.1f}" if p.exact else f"> {p.distance_mm:.0f}"
+            rows.append((p.a, p.b, dist, f"{p.limit_mm:g}", where))
+        lines += _table(rows)
+        lines += [f"not checked: {note}" for note in findings.clearance.skipped]
     lines += ["", f"route mass {findings.mass.total_kg:.2f} kg; added unsprung mass per corner"]
     lines += _table(mass_rows(findings))
     if findings.mass.estimated_inertia:
@@ -235,6 +248,16 @@ def as_json(findings: Findings, *, indent: int | None = 1) -> str:
                               "kinetic_heave_kg": round(c.kinetic_heave_kg, 6),
                               "existing_kg": c.existing_kg} for c in findings.mass.corners],
                  "estimated_inertia": list(findings.mass.estimated_inertia)},
+        "clearance": {
+            "poses": findings.clearance.poses,
+            "pairs": [{"a": p.a, "b": p.b, "distance_mm": round(p.distance_mm, 6),
+                       "limit_mm": p.limit_mm, "exact": p.exact,
+                       "sweep": p.sweep if p.exact else None,
+                       "pose": p.pose if p.exact else None,
+                       "point_a_mm": [round(v, 6) for v in p.point_a] if p.exact else None,
+                       "point_b_mm": [round(v, 6) for v in p.point_b] if p.exact else None}
+                      for p in findings.clearance.pairs],
+            "not_checked": list(findings.clearance.skipped)},
         "compliance": {"route_stiffness_N_per_mm": {
             k: _finite(v) for k, v in findings.compliance.route_stiffness_N_per_mm.items()}},
         "sweeps": sweep_json(analysis),
