@@ -36,8 +36,8 @@ __all__ = [
 
 Array = NDArray[np.float64]
 
-# source: standard acceleration of gravity 9.80665 m/s², 3rd CGPM (1901), as given in
-# NIST SP 811 (2008), pub.
+# source: standard acceleration of gravity g_n = 9.80665 m/s², exact by definition of the
+# 3rd CGPM (1901), from memory (the same value defines the pound-force in NIST SP 811).
 G0_M_S2 = 9.80665
 
 
@@ -66,9 +66,10 @@ def chassis_to_ground(result: SweepResult) -> Array:
 def aero_force_ground_N(design: Design, element: str, case: LoadCase) -> Array:
     """The element's aero force in the ground frame (N).
 
-    source: L = ½ρV²·S·C_L and D = ½ρV²·S·C_D (NASA Glenn Research Center, "The Lift
-    Coefficient" / "The Drag Equation"), pub; downforce acts down (−z), drag rearward
-    (−x), DESIGN §6.
+    source: L = ½ρV²·S·C_L (NASA Glenn Research Center, "The Lift Coefficient", pub) and
+    D = C_d·A·½ρV² (NASA Glenn, Beginner's Guide to Aeronautics, "Drag Equation",
+    www1.grc.nasa.gov/beginners-guide-to-aeronautics/drag-equation/, pub); downforce
+    acts down (−z), drag rearward (−x), DESIGN §6.
     """
     if element in case.forces_N:
         return np.array(case.forces_N[element], dtype=float)

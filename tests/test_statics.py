@@ -139,15 +139,18 @@ def test_every_body_is_in_equilibrium_at_every_pose(name: str) -> None:
             a, c = link.axis_points[b]
             u = pts[:, c] - pts[:, a]
             u /= np.linalg.norm(u, axis=-1, keepdims=True)
+            reaction = sums.joint[:, :, b]
             if link.mount[b] == HINGE:
-                about_axis = own[..., 3:6] - np.cross(pts[:, None, a], own[..., 0:3])
-                _close(np.einsum("bki,bi->bk", about_axis, u), 0.0, m_tol,
-                       f"{name} {sweep} {body} moment about its hinge axis")
+                for what, wrench in (("the other forces", own), ("the reaction", reaction)):
+                    about_axis = wrench[..., 3:6] - np.cross(pts[:, None, a], wrench[..., 0:3])
+                    _close(np.einsum("bki,bi->bk", about_axis, u), 0.0, m_tol,
+                           f"{name} {sweep} {body}: moment of {what} about the hinge axis")
                 checked["hinge"] += 1
             else:
                 assert link.mount[b] == SLIDE
-                _close(np.einsum("bki,bi->bk", own[..., 0:3], u), 0.0, f_tol,
-                       f"{name} {sweep} {body} force along its slide")
+                for what, wrench in (("the other forces", own), ("the reaction", reaction)):
+                    _close(np.einsum("bki,bi->bk", wrench[..., 0:3], u), 0.0, f_tol,
+                           f"{name} {sweep} {body}: {what} along the slide")
                 checked["slide"] += 1
         # the whole linkage but the chassis: loads + ground + the chassis's reaction = 0,
         # and the chassis receives exactly what its rods and hinges pass on to it
@@ -341,7 +344,10 @@ def _speed_and_density_cases(name: str) -> tuple[Analysis, float]:
     cases = {"still": {"speed_kmh": 0.0}, "v": {"speed_kmh": v},
              "twice": {"speed_kmh": 2.0 * v},
              "thin": {"speed_kmh": v, "air_density_kg_m3": 1.0},
-             "dense": {"speed_kmh": v, "air_density_kg_m3": 2.45}}
+             "dense": {"speed_kmh": v, "air_density_kg_m3": 2.45},
+             # 1 + bump_g = 0: every mass weighs nothing (DESIGN §6), only the air loads
+             "weightless_v": {"speed_kmh": v, "bump_g": -1.0},
+             "weightless_twice": {"speed_kmh": 2.0 * v, "bump_g": -1.0}}
     design, _ = parse(text + load_cases_text(cases), name)
     return analyse(design), v
 
@@ -360,7 +366,7 @@ def test_downforce_grows_with_the_square_of_speed(name: str) -> None:
     # Coefficient", pub; REFERENCES.md): at twice the speed the aero loads are four times
     # as large, and statics is linear in the loads, so the aero part of every force
     # (the case at the speed minus the case standing still, which holds only the
-    # weights) grows four times.
+    # weights) grows four times, and so does every force of a weightless case.
     analysis, _ = _speed_and_density_cases(name)
     k = {c: i for i, c in enumerate(analysis.loads.cases)}
     for sweep, st in analysis.statics.items():
@@ -369,6 +375,10 @@ def test_downforce_grows_with_the_square_of_speed(name: str) -> None:
             aero_v, aero_2v = at_v - still, at_2v - still
             scale = float(np.abs(aero_2v).max(initial=0.0))
             _close(aero_2v, 4.0 * aero_v, REL * max(scale, 1e-6), f"{name} {sweep} {field}")
+            # with the weights taken out, every force itself grows four times
+            at_v, at_2v = value[:, k["weightless_v"]], value[:, k["weightless_twice"]]
+            _close(at_2v, 4.0 * at_v, REL * max(float(np.abs(at_2v).max(initial=0.0)), 1e-6),
+                   f"{name} {sweep} {field} (weightless)")
         rods = st.rod_force_N
         assert np.abs(rods[:, k["v"]] - rods[:, k["still"]]).max() > 50.0  # aero is there
 
