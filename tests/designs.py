@@ -21,19 +21,24 @@ from plumbrod.sweeps import SweepResult, SweepSpec, run_sweep
 
 __all__ = [
     "EXAMPLE",
+    "EXAMPLES",
     "FourBar",
     "FrontChain",
     "SideChain",
+    "aero_text",
     "body_sweep",
     "four_bar_text",
     "freudenstein_constants",
     "front_chain_text",
+    "load_cases_text",
     "parse",
     "pivot_distance_errors",
     "replace_once",
     "rigid_distance_errors",
     "rod_length_errors",
     "side_chain_text",
+    "splayed_struts_text",
+    "three_hangers_text",
     "travel_sweep",
 ]
 
@@ -41,6 +46,8 @@ Array = NDArray[np.float64]
 ROOT = Path(__file__).resolve().parents[1]
 EXAMPLE = ROOT / "examples" / "hillclimb_splitter.toml"
 """The bundled 3D example (mirror = true)."""
+EXAMPLES = tuple(sorted((ROOT / "examples").glob("*.toml")))
+"""Every example design file (all invented scenarios)."""
 
 
 def replace_once(text: str, old: str, new: str) -> str:
@@ -360,6 +367,161 @@ steps = 21
 [sweeps.heave_roll]
 steps = [5, 5]
 """
+
+
+# ---------------------------------------------------------------------------------
+# Load data appended to a design text
+# ---------------------------------------------------------------------------------
+
+
+def aero_text(element: str, area_m2: float, downforce_coefficient: float,
+              drag_coefficient: float) -> str:
+    """An ``[elements.<element>.aero]`` table to append to a design text."""
+    return (f"\n[elements.{element}.aero]\nreference_area_m2 = {area_m2!r}\n"
+            f"downforce_coefficient = {downforce_coefficient!r}\n"
+            f"drag_coefficient = {drag_coefficient!r}\n")
+
+
+def load_cases_text(cases: dict[str, dict[str, object]]) -> str:
+    """``[load_cases.<name>]`` tables to append to a design text.
+
+    Each case maps keys to numbers, except ``forces_N``: ``{element: (Fx, Fy, Fz)}``.
+    """
+    out = []
+    for name, keys in cases.items():
+        lines = [f"\n[load_cases.{name}]"]
+        for key, value in keys.items():
+            if key == "forces_N":
+                forces = ", ".join(f"{e} = {_fmt(tuple(f))}"  # type: ignore[arg-type]
+                                   for e, f in value.items())  # type: ignore[attr-defined]
+                lines.append(f"forces_N = {{ {forces} }}")
+            else:
+                lines.append(f"{key} = {float(value)!r}")  # type: ignore[arg-type]
+        out.append("\n".join(lines) + "\n")
+    return "".join(out)
+
+
+# ---------------------------------------------------------------------------------
+# Side-view element hung straight from one slider upright (strut routes)
+# ---------------------------------------------------------------------------------
+
+
+def three_hangers_text(hangers: tuple[tuple[str, float, str, float, float | None], ...] = (
+        ("a", -200.0, "4130-N", 16.0, 1.2),
+        ("b", 100.0, "4130-N", 12.0, 1.0),
+        ("c", 300.0, "6061-T6", 20.0, 2.0)),
+        length_mm: float = 400.0, centre_of_pressure_x_mm: float = 180.0) -> str:
+    """TOML of a side-view beam ``beam`` hung by vertical rods of equal length from
+    pickups on the slider upright of corner ``front`` (one redundant rod when there are
+    three), with one horizontal guide to the chassis at the beam's height.
+
+    ``hangers``: (rod name, x in mm, material, od_mm, wall_mm or None for a solid bar).
+    Equal lengths keep the rods parallel through the travel (a parallelogram), so the
+    over-constrained beam still moves.  Travel sweep of 3 poses (-10, 0, +10 mm) only.
+    """
+    z_beam, z_top = 200.0, 200.0 + length_mm
+    upright = "\n".join(f"{n} = {_fmt((x, z_top))}" for n, x, *_ in hangers)
+    beam = "\n".join(f"{n} = {_fmt((x, z_beam))}" for n, x, *_ in hangers)
+    guide_x = max(x for _, x, *_ in hangers) + 100.0
+    rods = []
+    for n, _, material, od, wall in hangers:
+        section = "solid = true\n" if wall is None else f"wall_mm = {wall!r}\n"
+        rods.append(f'[rods.{n}]\nends = ["front.upright.{n}", "beam.{n}"]\n'
+                    f'material = "{material}"\nod_mm = {od!r}\n{section}')
+    return f"""\
+# Invented test fixture: a beam hung from one upright by parallel vertical rods.
+[design]
+name = "beam on parallel hangers (test fixture)"
+plane = "side"
+
+[chassis.pickups]
+guide = {_fmt((guide_x + 300.0, z_beam))}
+
+[corners.front]
+wheel_centre_mm = [0.0, 300.0]
+tyre_radius_mm = 300.0
+tyre_width_mm = 240.0
+suspension = "slider"
+
+[corners.front.pickups.upright]
+{upright}
+
+[elements.beam]
+kind = "other"
+mass_kg = 4.0
+cg_mm = {_fmt((centre_of_pressure_x_mm, z_beam + 10.0))}
+centre_of_pressure_mm = {_fmt((centre_of_pressure_x_mm, z_beam))}
+
+[elements.beam.pickups]
+{beam}
+guide = {_fmt((guide_x, z_beam))}
+
+{chr(10).join(rods)}
+{_rod("guide", "chassis.guide", "beam.guide")}
+[sweeps.travel]
+range_mm = [-10.0, 10.0]
+steps = 3
+
+[sweeps.heave]
+enabled = false
+
+[sweeps.pitch]
+enabled = false
+"""
+
+
+def splayed_struts_text(splay_deg: float = 2.0, *, limits: str = "") -> str:
+    """TOML of a side-view wing on two struts straight from the slider upright of corner
+    ``front``, each ``splay_deg`` from vertical and leaning apart downwards, plus one
+    horizontal guide to the chassis.  Struts ``rear`` (x -100 at the upright) and
+    ``front`` (x +100), 300 mm tall; the centre of pressure at x 400 lies outside them.
+    ``limits``: lines for a ``[limits]`` table.  Travel sweep of 3 poses only.
+    """
+    lean = 300.0 * math.tan(math.radians(splay_deg))
+    table = f"\n[limits]\n{limits}\n" if limits else ""
+    return f"""\
+# Invented test fixture: a wing on two splayed struts from one upright.
+[design]
+name = "splayed struts (test fixture)"
+plane = "side"
+
+[chassis.pickups]
+guide = [900.0, 200.0]
+
+[corners.front]
+wheel_centre_mm = [0.0, 300.0]
+tyre_radius_mm = 300.0
+tyre_width_mm = 240.0
+suspension = "slider"
+
+[corners.front.pickups.upright]
+rear = [-100.0, 500.0]
+front = [100.0, 500.0]
+
+[elements.wing]
+kind = "wing"
+mass_kg = 4.0
+cg_mm = [300.0, 210.0]
+centre_of_pressure_mm = [400.0, 200.0]
+
+[elements.wing.pickups]
+rear = {_fmt((-100.0 - lean, 200.0))}
+front = {_fmt((100.0 + lean, 200.0))}
+guide = [600.0, 200.0]
+
+{_rod("rear", "front.upright.rear", "wing.rear")}
+{_rod("front", "front.upright.front", "wing.front")}
+{_rod("guide", "chassis.guide", "wing.guide")}
+[sweeps.travel]
+range_mm = [-10.0, 10.0]
+steps = 3
+
+[sweeps.heave]
+enabled = false
+
+[sweeps.pitch]
+enabled = false
+{table}"""
 
 
 # ---------------------------------------------------------------------------------
