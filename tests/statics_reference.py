@@ -21,6 +21,7 @@ from plumbrod.linkage import HINGE, SLIDE
 from plumbrod.loads import design_load_cases
 from plumbrod.members import material_table
 from plumbrod.model import CHASSIS, Design, LoadCase
+from plumbrod.plates import rocker_mass_kg
 from plumbrod.statics import Statics
 from plumbrod.sweeps import SweepResult
 
@@ -121,11 +122,14 @@ def _point_loads(analysis: Analysis, result: SweepResult,
         loads.append((body, kin.points[:, link.point(f"{element.name}.cg")],
                       to_chassis(weight)))
     for rocker in design.rockers:
-        if not rocker.mass_kg:
+        # a rocker without mass_kg weighs what its plate weighs (net area x thickness x
+        # density; the outline area is tested against shapely in test_plate_outline.py)
+        mass = rocker_mass_kg(design, rocker)
+        if not mass:
             continue
         keys = [k for k, p in design.pickups.items() if p.body == rocker.name]
         centroid = kin.points[:, [link.point(k) for k in keys]].mean(axis=1)
-        weight = np.array([inertia_force_ground_N(rocker.mass_kg, c) for c in cases])
+        weight = np.array([inertia_force_ground_N(mass, c) for c in cases])
         loads.append((link.body(rocker.name), centroid, to_chassis(weight)))
     for rod in design.rods:
         half = rod_mass_kg(design, rod.name) / 2.0

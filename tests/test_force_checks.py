@@ -178,7 +178,7 @@ def _hand_resultant(splay_deg: float, w: float = 2000.0) -> np.ndarray:
 def _resultant_angles_deg(analysis: Analysis) -> np.ndarray:
     out = []
     for st in analysis.statics.values():
-        for force in st.upright_force_N.values():
+        for force in st.corner_force_N.values():
             size = np.linalg.norm(force, axis=-1)
             out.append(np.degrees(np.arccos(np.abs(force[..., 2]) / size)).ravel())
     return np.concatenate(out)
@@ -193,9 +193,13 @@ def test_line_of_action_includes_the_resultant_on_the_upright() -> None:
     hand = _hand_resultant(2.0)
     hand_angle = math.degrees(math.atan2(abs(hand[0]), abs(hand[1])))
     assert 7.0 < hand_angle < 7.4
-    for force in st.upright_force_N.values():  # both strut routes reach one upright
-        np.testing.assert_allclose(force[1, 0, [0, 2]], hand, rtol=0.0, atol=1e-9 * 2000.0)
-        assert force[1, 0, 1] == 0.0
+    # both strut routes reach one upright: their resultant on it is the hand figure,
+    # and each route's own force is its strut's
+    (force,) = st.corner_force_N.values()
+    np.testing.assert_allclose(force[1, 0, [0, 2]], hand, rtol=0.0, atol=1e-9 * 2000.0)
+    assert force[1, 0, 1] == 0.0
+    np.testing.assert_allclose(sum(st.upright_force_N.values())[1, 0], force[1, 0],
+                               rtol=0.0, atol=1e-9 * 2000.0)
     rods = max(float(a.max()) for a in analysis.figures["travel"].line_of_action_deg.values())
     assert rods == pytest.approx(2.0, abs=0.05)  # every rod alone is within 3°
     check = check_line_of_action(analysis)

@@ -110,14 +110,15 @@ def check_line_of_action(analysis: Analysis) -> CheckResult:
                          i, "")
     resultant = -1.0
     for sweep, st in analysis.statics.items():
-        for route, force in st.upright_force_N.items():
+        for corner, force in st.corner_force_N.items():
             size = np.linalg.norm(force, axis=-1)
             cos = np.abs(force[..., 2]) / np.where(size > 0, size, 1.0)
             angle = np.where(size > 1e-9, np.degrees(np.arccos(np.clip(cos, 0.0, 1.0))), 0.0)
             b, k = np.unravel_index(int(np.argmax(angle)), angle.shape)
             resultant = max(resultant, float(angle[b, k]))
             if angle[b, k] > worst[0]:
-                worst = (float(angle[b, k]), f"resultant force of route '{route}' on its corner",
+                worst = (float(angle[b, k]), f"resultant force of the routes on corner "
+                         f"'{corner}'",
                          sweep, int(b), f", load case '{st.cases[k]}'")
     title = "Line of action from vertical (route rods and the force on each upright)"
     if worst[0] < 0:

@@ -11,6 +11,7 @@ __all__ = [
     "AssemblyError",
     "DesignFileError",
     "LocationError",
+    "OutputError",
     "PlumbrodError",
     "UsageError",
 ]
@@ -92,3 +93,20 @@ class UsageError(PlumbrodError, ValueError):
     def __str__(self) -> str:
         tail = f"; {self.fix}" if self.fix else ""
         return f"{self.option}: {self.problem}{tail}"
+
+
+class OutputError(PlumbrodError, OSError):
+    """An output file that cannot be written.
+
+    Attributes: ``path``, ``problem`` and ``fix``.
+    """
+
+    def __init__(self, path: str, problem: str, fix: str = "") -> None:
+        self.path = path
+        self.problem = problem
+        self.fix = fix
+        super().__init__(str(self))
+
+    def __str__(self) -> str:
+        tail = f"; {self.fix}" if self.fix else ""
+        return f"{self.path}: {self.problem}{tail}"

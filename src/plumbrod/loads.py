@@ -21,7 +21,7 @@ from numpy.typing import NDArray
 
 from plumbrod.linkage import Linkage
 from plumbrod.members import Member
-from plumbrod.model import Design, Element, LoadCase
+from plumbrod.model import PLANE_NORMAL_AXIS, Design, Element, LoadCase
 from plumbrod.plates import rocker_mass_kg
 from plumbrod.routes import RouteMap
 
@@ -78,7 +78,9 @@ class AppliedLoads:
     """Point loads for every case: which body, where (design position), how much.
 
     ``force_N`` (K, nl, 3) is in the ground frame; ``owner`` (nl,) is the index of the
-    element whose load it counts as (route parts count with their element).
+    element whose load it counts as (route parts count with their element).  In a
+    planar design the components normal to the view are left out (the planar linkage
+    cannot carry them) and ``left_out`` says which, per load case.
     """
 
     cases: tuple[str, ...]
@@ -88,6 +90,7 @@ class AppliedLoads:
     point_mm: Array
     owner: NDArray[np.intp]
     force_N: Array
+    left_out: tuple[str, ...] = ()
 
     @property
     def size(self) -> int:
@@ -157,7 +160,17 @@ def applied_loads(design: Design, link: Linkage, members: dict[str, Member],
                 owner_of_rod.get(rod.name, 0), [_inertia(half, c) for c in cases])
     k = len(cases)
     force = np.array(forces, dtype=float).reshape(len(labels), k, 3).transpose(1, 0, 2)
+    left_out: list[str] = []
+    if design.plane is not None:
+        axis = PLANE_NORMAL_AXIS[design.plane]
+        for c, case in enumerate(cases):
+            dropped = force[c, :, axis]
+            if np.any(dropped != 0.0):
+                left_out.append(
+                    f"load case '{case.name}': {np.abs(dropped).sum():.1f} N along "
+                    f"{'xyz'[axis]} left out (normal to the {design.plane} view)")
+        force[:, :, axis] = 0.0
     return AppliedLoads(
         cases=tuple(c.name for c in cases), elements=elements, labels=tuple(labels),
         body=np.array(bodies, dtype=np.intp), point_mm=np.array(points, dtype=float),
-        owner=np.array(owners, dtype=np.intp), force_N=force)
+        owner=np.array(owners, dtype=np.intp), force_N=force, left_out=tuple(left_out))

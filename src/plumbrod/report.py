@@ -133,6 +133,8 @@ def as_text(findings: Findings) -> str:
     lines.append(f"poses solved: {', '.join(parts)}; largest residual {worst:.1e} mm")
     if analysis.loads is not None:
         lines.append(f"load cases: {', '.join(analysis.loads.cases)}")
+        for note in analysis.loads.left_out:
+            lines.append(f"planar design: {note}")
     else:
         lines.append("load cases: none (give [design] top_speed_kmh and element aero data, "
                      "or [load_cases]); forces are not checked")
@@ -240,6 +242,7 @@ def as_json(findings: Findings, *, indent: int | None = 1) -> str:
                     "delivering_rods": list(r.delivering_rods)} for r in analysis.routes.routes],
         "guides": list(analysis.routes.guides),
         "load_cases": list(analysis.loads.cases) if analysis.loads else [],
+        "loads_left_out": list(analysis.loads.left_out) if analysis.loads else [],
         "members": members,
         "mass": {"bodies_kg": {k: round(v, 6) for k, v in findings.mass.bodies_kg.items()},
                  "corners": [{"corner": c.corner,

@@ -94,11 +94,13 @@ def find_routes(design: Design) -> RouteMap:
             between = tuple(sorted(b for b in reached if b not in corner_of))
             own = {b for b in reached if corner_of.get(b) == corners[0]}
             delivering = []
-            for other in design.rods:
-                a, b = body_of[other.end_a], body_of[other.end_b]
-                if (a in own and (b in between or b == element)) or \
-                        (b in own and (a in between or a == element)):
-                    delivering.append(other.name)
+            if start in own:  # a strut straight from the element to the corner
+                delivering.append(rod.name)
+            else:
+                for other in design.rods:
+                    a, b = body_of[other.end_a], body_of[other.end_b]
+                    if (a in own and b in between) or (b in own and a in between):
+                        delivering.append(other.name)
             routes.append(Route(element=element, pickup=near, corners=tuple(corners),
                                 bodies=between, receiving_rods=(rod.name,),
                                 delivering_rods=tuple(delivering)))

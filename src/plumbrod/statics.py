@@ -66,6 +66,8 @@ class Statics:
     applied_wrench: Array  # (B, K, 6) total applied loads, N and N·mm about the origin
     upright_force_N: dict[str, Array]  # route -> (B, K, 3) on the corner, ground frame
     upright_moment_Nm: dict[str, Array]  # route -> (B, K, 3) about the wheel centre
+    corner_force_N: dict[str, Array]  # corner -> (B, K, 3): every route's force summed
+    corner_moment_Nm: dict[str, Array]  # corner -> (B, K, 3) about its wheel centre
 
 
 def reference_points(link: Linkage, routes: RouteMap) -> Array:
@@ -164,6 +166,11 @@ def solve_statics(link: Linkage, routes: RouteMap, members: dict[str, Member],
     applied[..., 3:6] = cross(lp[:, None], f_chassis).sum(axis=2)
     vertical = np.einsum("kl,le->ke", loads.force_N[..., 2], owner)
     up_f, up_m = _upright_loads(link, routes, kin, grad, ends, lam_k, rot)
+    corner_f: dict[str, Array] = {}
+    corner_m: dict[str, Array] = {}
+    for route in routes.routes:
+        corner_f[route.corner] = corner_f.get(route.corner, 0.0) + up_f[route.name]
+        corner_m[route.corner] = corner_m.get(route.corner, 0.0) + up_m[route.name]
 
     def per_case(a: Array) -> Array:
         return a.reshape(n, k_cases, n_el, *a.shape[2:]).sum(axis=2)
@@ -178,6 +185,7 @@ def solve_statics(link: Linkage, routes: RouteMap, members: dict[str, Member],
                                            refs, lp, jl, f_ground, owner),
         vertical_load_N=np.broadcast_to(vertical, (n, k_cases, n_el)).copy(),
         applied_wrench=applied, upright_force_N=up_f, upright_moment_Nm=up_m,
+        corner_force_N=corner_f, corner_moment_Nm=corner_m,
     )
 
 

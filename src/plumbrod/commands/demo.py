@@ -31,7 +31,7 @@ def register(subparsers: Any) -> None:
 
 def run(args: argparse.Namespace) -> int:
     from plumbrod.analysis import Analysis
-    from plumbrod.atomic import write_atomic
+    from plumbrod.atomic import write_many
     from plumbrod.design_file import parse_design
     from plumbrod.findings import review
     from plumbrod.report import as_json, as_text, verdict
@@ -46,12 +46,12 @@ def run(args: argparse.Namespace) -> int:
     analysis: Analysis = findings.analysis
     report = as_text(findings)
     sys.stdout.write(report)
-    written = [
-        write_atomic(design_path, text),
-        write_atomic(out / f"{stem}-report.txt", report),
-        write_atomic(out / f"{stem}-report.json", as_json(findings)),
-        write_atomic(out / f"{stem}-sweep.csv", table_csv(*pose_table(analysis))),
-    ]
+    written = write_many({
+        design_path: text,
+        out / f"{stem}-report.txt": report,
+        out / f"{stem}-report.json": as_json(findings),
+        out / f"{stem}-sweep.csv": table_csv(*pose_table(analysis)),
+    })
     print("")
     for path in written:
         print(f"wrote {path}")

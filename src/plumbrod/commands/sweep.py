@@ -38,7 +38,7 @@ def register(subparsers: Any) -> None:
 
 def run(args: argparse.Namespace) -> int:
     from plumbrod.analysis import analyse
-    from plumbrod.atomic import write_atomic
+    from plumbrod.atomic import write_many
     from plumbrod.design_file import load_design
     from plumbrod.errors import UsageError
     from plumbrod.table import pose_table, table_csv, table_json
@@ -52,17 +52,17 @@ def run(args: argparse.Namespace) -> int:
             raise UsageError("--sweep", f"the design has no '{missing[0]}' sweep",
                              "use one of: " + ", ".join(analysis.sweeps))
     columns, rows = pose_table(analysis, chosen)
-    written: list[str] = []
+    files: dict[str, str] = {}
     csv_path = args.csv
     if csv_path is None and args.json is None:
         csv_path = str(Path("exports") / f"{Path(args.design).stem}-sweep.csv")
     if csv_path:
-        written.append(str(write_atomic(csv_path, table_csv(columns, rows))))
+        files[csv_path] = table_csv(columns, rows)
+    if args.json and args.json != "-":
+        files[args.json] = table_json(analysis, columns, rows)
+    notes = sys.stderr if args.json == "-" else sys.stdout  # keep printed JSON clean
+    for path in write_many(files):
+        print(f"wrote {path}: {len(rows)} poses x {len(columns)} columns", file=notes)
     if args.json == "-":
         sys.stdout.write(table_json(analysis, columns, rows))
-        return 0
-    if args.json:
-        written.append(str(write_atomic(args.json, table_json(analysis, columns, rows))))
-    for path in written:
-        print(f"wrote {path}: {len(rows)} poses x {len(columns)} columns")
     return 0
