@@ -19,8 +19,8 @@ def register(subparsers: Any) -> None:
         description=(
             "Run the whole job on the bundled example (an invented hillclimb car's front "
             "splitter hung from its lower wishbones through two rockers): check it, print "
-            "the report, and write the design, the text and JSON reports and the sweep "
-            "table into the output folder."
+            "the report, and write the design, the text and JSON reports, the sweep "
+            "table and the PNG figures into the output folder."
         ),
         epilog=CAUTION,
     )
@@ -34,6 +34,7 @@ def run(args: argparse.Namespace) -> int:
     from plumbrod.atomic import write_many
     from plumbrod.design_file import parse_design
     from plumbrod.findings import review
+    from plumbrod.plots import plot_findings
     from plumbrod.report import as_json, as_text, verdict
     from plumbrod.table import pose_table, table_csv
     from plumbrod.templates import BUNDLED_EXAMPLE, read_template
@@ -52,6 +53,7 @@ def run(args: argparse.Namespace) -> int:
         out / f"{stem}-report.json": as_json(findings),
         out / f"{stem}-sweep.csv": table_csv(*pose_table(analysis)),
     })
+    written += plot_findings(findings, out, stem)
     print("")
     for path in written:
         print(f"wrote {path}")
@@ -60,6 +62,7 @@ def run(args: argparse.Namespace) -> int:
     print(f"  edit a copy of {design_path} (or start fresh: plumbrod new my_car.toml)")
     print(f"  plumbrod check {design_path} --json     the same report as JSON")
     print(f"  plumbrod sweep {design_path}            every pose as a CSV table")
+    print(f"  plumbrod plot {design_path}             the figures again, for your own designs")
     print(f"  plumbrod size {design_path}             lighter tubes that keep the reserves")
     print("  plumbrod column --od 16 --wall 1 --length 400 --material 4130-N --load -2000")
     print("  the other examples: examples/ in the source tree (see examples/README.md)")
