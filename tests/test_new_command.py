@@ -3,14 +3,20 @@
 from __future__ import annotations
 
 import json
+import os
 import subprocess
 import sys
 from pathlib import Path
 
+SRC = Path(__file__).resolve().parents[1] / "src"
+
 
 def _run(*args: str, cwd: Path) -> subprocess.CompletedProcess[str]:
+    # run from another folder: make sure this checkout's plumbrod is the one imported
+    env = {**os.environ, "PYTHONPATH": os.pathsep.join(
+        p for p in (str(SRC), os.environ.get("PYTHONPATH", "")) if p)}
     return subprocess.run([sys.executable, "-m", "plumbrod", *args], capture_output=True,
-                          text=True, check=False, cwd=cwd)
+                          text=True, check=False, cwd=cwd, env=env)
 
 
 def test_the_starter_design_passes_its_checks(tmp_path: Path) -> None:
