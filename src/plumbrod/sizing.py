@@ -57,17 +57,22 @@ def choose_sections(
     materials: Sequence[str] | None = None,
     system: str = "all",
     clearance_margin_mm: Callable[[str], float] | None = None,
+    *,
+    min_od_mm: float = 0.0,
+    min_wall_mm: float = 0.0,
 ) -> list[SizingChoice]:
     """The lightest adequate section for each file entry.
 
     ``materials``: material ids allowed (default: each rod's own).  ``clearance_margin_mm``
     gives, for a rod, how much its radius may grow before its clearance limit is reached
-    (``inf`` when the design has no zones).
+    (``inf`` when the design has no zones).  Sections below ``min_od_mm`` or with a wall
+    below ``min_wall_mm`` (solid bars always pass the wall rule) are not considered.
     """
     analysis = findings.analysis
     limits = analysis.design.limits
     table = material_table(analysis.design)
-    catalogue = catalogue_sections(system)
+    catalogue = [c for c in catalogue_sections(system) if c.od_mm >= min_od_mm
+                 and (c.wall_mm is None or c.wall_mm >= min_wall_mm)]
     choices: list[SizingChoice] = []
     groups: dict[str, list[str]] = {}
     for rod in analysis.design.rods:

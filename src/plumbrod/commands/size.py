@@ -32,6 +32,10 @@ def register(subparsers: Any) -> None:
                              "rod's own material); see `plumbrod column --list-materials`")
     parser.add_argument("--system", choices=("all", "metric", "inch"), default="all",
                         help="tube catalogue to use (default: all)")
+    parser.add_argument("--min-od", metavar="MM", type=float, default=0.0,
+                        help="smallest outside diameter to accept, e.g. for rod-end inserts")
+    parser.add_argument("--min-wall", metavar="MM", type=float, default=0.0,
+                        help="thinnest tube wall to accept, e.g. for welding")
     parser.add_argument("-o", "--output", metavar="FILE",
                         help="where to write the sized design (default: <design>-sized.toml "
                              "next to the input)")
@@ -77,8 +81,13 @@ def run(args: argparse.Namespace) -> int:
                          "give [design] top_speed_kmh with element aero data, or [load_cases]")
     text = source.read_text(encoding="utf-8")
     entries = list(tomllib.loads(text).get("rods", {}))
+    for option, value in (("--min-od", args.min_od), ("--min-wall", args.min_wall)):
+        if not value >= 0.0 or value != value:
+            raise UsageError(option, f"expected a length of 0 or more in mm, got {value}",
+                             "give a plain number such as 10")
     choices = choose_sections(findings, entries, materials, args.system,
-                              findings.clearance_margin_mm)
+                              findings.clearance_margin_mm, min_od_mm=args.min_od,
+                              min_wall_mm=args.min_wall)
     try:
         new_text = apply_sizes(text, choices)
     except ValueError as exc:
