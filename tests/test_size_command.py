@@ -235,3 +235,21 @@ def test_impossible_load_exits_1_naming_the_rod(tmp_path: Path) -> None:
     assert len(rows) == 1
     assert rows[0].split()[0] == "strut"
     assert path.read_text(encoding="utf-8") == strut_text(s)
+
+
+def test_min_od_and_min_wall_bound_every_choice(tmp_path: Path) -> None:
+    # rod-end inserts and welding set a smallest OD and wall (common practice, no
+    # source): every section written must respect both, and still meet the reserves
+    design_path = tmp_path / "kh3.toml"
+    shutil.copy(EXAMPLE, design_path)
+    done = plumbrod_size(str(design_path), "--min-od", "12", "--min-wall", "0.9")
+    assert done.returncode == 0, done.stderr
+    sized = tomllib.loads((tmp_path / "kh3-sized.toml").read_text())
+    for name, rod in sized["rods"].items():
+        assert rod["od_mm"] >= 12.0, name
+        assert rod.get("wall_mm", math.inf) >= 0.9, name
+    findings = review(parse_design((tmp_path / "kh3-sized.toml").read_text(), "sized"))
+    for reserve in findings.reserves.values():
+        assert reserve.buckling_rf >= 3.0 and reserve.tension_rf >= 2.0
+    bad = plumbrod_size(str(design_path), "--min-od", "-1")
+    assert bad.returncode == 2 and "--min-od" in bad.stderr
