@@ -279,24 +279,47 @@ def _continue(
             continue
         step *= 0.5
         if step < MIN_CONTINUATION_STEP:
-            member, detail = _diagnose(link, solved, ok[0])
+            last_kin, _, last_jac = evaluate(link, drive.with_parameters(current[None]), pose)
+            member, detail = _diagnose(link, solved, last_kin, last_jac)
             raise AssemblyError(member, sweep_name, describe(nxt), detail)
     return pose
 
 
-def _diagnose(link: Linkage, solved: Solved, converged: bool) -> tuple[str, str]:
-    """Name the member that fails: at a dead point, the rod the singular direction
-    loads most; otherwise the row with the largest residual."""
+DEAD_POINT_DEG = 10.0
+"""A rod end whose transmission angle is this close to 0° or 180° at the last pose
+reached is named as the cause when the linkage stops assembling."""
+
+
+def _diagnose(link: Linkage, solved: Solved, last_kin: Kinematics,
+              last_jac: Array) -> tuple[str, str]:
+    """Name the member that fails.
+
+    Near the last pose reached: a rod end at a dead point (transmission angle near 0°
+    or 180°, the rod in line with its arm); else the rod the singular direction of the
+    constraint Jacobian loads most; else the row with the largest residual.
+    """
+    from plumbrod.transmission import joint_labels, transmission_angles
+
+    mu, _ = transmission_angles(link, last_kin)
+    if mu.shape[1]:
+        off = np.minimum(mu[0], 180.0 - mu[0])
+        j = int(np.argmin(off))
+        if off[j] < DEAD_POINT_DEG:
+            rod, body = joint_labels(link)[j]
+            return rod, (f"rod '{rod}' reaches a dead point at '{body}' (transmission angle "
+                         f"{mu[0, j]:.1f}°): it is in line with the arm and cannot push the "
+                         "linkage further")
     labels = [*link.row_labels(), *(f"corner '{c}' driver" for c in link.corner_names)]
-    if converged:  # it converged, but only onto the other assembly: a dead point between
-        u, _, _ = np.linalg.svd(solved.jacobian[0])
+    u, sigma, _ = np.linalg.svd(last_jac[0])
+    if sigma.size and sigma[-1] < 1e-3 * sigma[0]:
         weight = np.abs(u[:, -1])
         weight[len(link.rod_names):] = 0.0  # name a rod
-        row = int(np.argmax(weight)) if weight.any() else 0
-        name = labels[row]
-        member = name.split("'")[1] if "'" in name else name
-        return member, (f"{name} reaches a dead point: the linkage would have to flip to "
-                        "its other assembly to go further")
+        if weight.any():
+            row = int(np.argmax(weight))
+            name = labels[row]
+            member = name.split("'")[1] if "'" in name else name
+            return member, (f"{name} reaches a dead point: the linkage would have to flip "
+                            "to its other assembly to go further")
     row = int(np.argmax(np.abs(solved.residual[0])))
     name = labels[row]
     member = name.split("'")[1] if "'" in name else name
