@@ -190,39 +190,52 @@ def solve_poses(
 ) -> Solved:
     """Solve every pose of ``drive`` (its parameters (B, npar)) from the design pose.
 
+    The linkage may hold one design (points (1, np, 3)) or a batch of candidate designs
+    (points (B, np, 3)): pose ``i`` then belongs to design ``i``.
     ``describe(parameters)`` formats one pose's driver values for error messages.
     Raises AssemblyError when a pose cannot be reached on the design's branch.
     """
     params = np.asarray(drive.parameters, dtype=float)
     count = params.shape[0]
-    zero = np.zeros((1, params.shape[1]))
-    base = link.design_pose(1)
+    designs = link.points.shape[0]
+    if designs not in (1, count):
+        raise ValueError(f"expected 1 design or one per pose ({count}), got {designs}")
+    zero = np.zeros((designs, params.shape[1]))
+    base = link.design_pose(designs)
     base_drive = drive.with_parameters(zero)
     kin0, _, jac0 = evaluate(link, base_drive, base)
     rows = _branch_rows(jac0[0])
-    signs0 = _branch_sign(jac0, rows)
-    tan0 = tangent(link, base_drive, kin0, jac0)[0]  # (nq, npar)
-    guess = link.advance(base.repeat(count), params @ tan0.T)
+    signs0 = _branch_sign(jac0, rows)  # (G,)
+    tan0 = tangent(link, base_drive, kin0, jac0)  # (G, nq, npar)
+    start = base.repeat(count) if designs == 1 else base
+    guess = link.advance(start, np.einsum("bqp,bp->bq", np.broadcast_to(
+        tan0, (count, *tan0.shape[1:])), params))
     solved, ok = newton(link, drive, guess)
     ok &= _branch_sign(solved.jacobian, rows) == signs0
     if ok.all():
         return solved
     describe = describe or (lambda p: ", ".join(f"{v:+.4g}" for v in p))
-    done_params = params[ok]
-    done_pose = solved.pose.take(np.flatnonzero(ok))
     fixes: list[tuple[int, Pose]] = []
-    for i in np.flatnonzero(~ok):
-        start_pose, start_par = base, zero[0]
-        if done_params.shape[0]:
-            near = int(np.argmin(np.linalg.norm(done_params - params[i], axis=1)))
-            if np.linalg.norm(done_params[near] - params[i]) < np.linalg.norm(params[i]):
-                start_pose, start_par = done_pose.take(near), done_params[near]
-        pose_i = _continue(link, drive, start_pose, start_par, params[i], (rows, signs0),
-                           sweep_name,
-                           describe)
-        fixes.append((int(i), pose_i))
-        done_params = np.vstack((done_params, params[i]))
-        done_pose = concatenate_poses([done_pose, pose_i])
+    if designs > 1:  # each candidate design marches from its own design pose
+        for i in np.flatnonzero(~ok):
+            one, one_drive = _subset(link, drive, np.array([i]))
+            pose_i = _continue(one, one_drive, base.take(int(i)), zero[0], params[i],
+                               (rows, signs0[i:i + 1]), sweep_name, describe)
+            fixes.append((int(i), pose_i))
+    else:
+        done_params = params[ok]
+        done_pose = solved.pose.take(np.flatnonzero(ok))
+        for i in np.flatnonzero(~ok):
+            start_pose, start_par = base, zero[0]
+            if done_params.shape[0]:
+                near = int(np.argmin(np.linalg.norm(done_params - params[i], axis=1)))
+                if np.linalg.norm(done_params[near] - params[i]) < np.linalg.norm(params[i]):
+                    start_pose, start_par = done_pose.take(near), done_params[near]
+            pose_i = _continue(link, drive, start_pose, start_par, params[i],
+                               (rows, signs0), sweep_name, describe)
+            fixes.append((int(i), pose_i))
+            done_params = np.vstack((done_params, params[i]))
+            done_pose = concatenate_poses([done_pose, pose_i])
     pose = solved.pose
     for i, p in fixes:
         pose = _put(pose, np.array([i]), p)
