@@ -21,7 +21,7 @@ from plumbrod.clearance import ClearanceReport, clearance_report, zone_solids
 from plumbrod.design_file import parse_design
 from plumbrod.distance import separation
 from plumbrod.plates import rocker_outlines
-from plumbrod.shapes import Capsule, Plate
+from plumbrod.shapes import Box, Capsule, Plate
 
 
 def _all_points(analysis):  # (poses of every sweep, np, 3), rotations, translations
@@ -178,3 +178,25 @@ size_mm = [20.0, 20.0, 20.0]
     report = clearance_report(analysis)
     assert any("drag_low" in note and "bracket" in note for note in report.skipped)
     assert not any(p.a == "rod 'drag_low'" and p.b == "zone 'bracket'" for p in report.pairs)
+
+
+def test_an_element_envelope_moves_with_the_element_and_is_checked():
+    # a box fixed in the splitter near the radiator zone: the envelope's least distance
+    # equals brute force over every pose (the box follows the element's pose)
+    text = EXAMPLE.read_text().replace(
+        "[elements.splitter.aero]",
+        "[elements.splitter.envelope]\ncentre_mm = [600.0, 0.0, 120.0]\n"
+        "size_mm = [300.0, 200.0, 140.0]\n\n[elements.splitter.aero]")
+    analysis = analyse(parse_design(text, "envelope.toml"))
+    report = clearance_report(analysis)
+    pair = _pair(report, "envelope of element 'splitter'", "zone 'radiator'")
+    assert pair.exact
+    _, rot, trans = _all_points(analysis)
+    b = analysis.link.body("splitter")
+    box = Box(rot[:, b] @ np.array([600.0, 0.0, 120.0]) + trans[:, b],
+              np.array([150.0, 100.0, 70.0]), rot[:, b])
+    zone = zone_solids(analysis)["zone 'radiator'"][0]
+    brute = np.asarray(separation(box, zone).distance_mm)
+    assert pair.distance_mm == pytest.approx(float(brute.min()), abs=1e-9)
+    # rods joined to the splitter are not paired with its envelope
+    assert not any("envelope" in p.a and p.b.startswith("rod") for p in report.pairs)

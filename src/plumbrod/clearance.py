@@ -1,16 +1,17 @@
-"""Clearance: the least distance between moving solids and keep-out zones over every
-pose of every sweep (DESIGN §5 item 10).
+"""Clearance: the least distance between moving solids and keep-out zones over every pose
+of every sweep (DESIGN §5 item 10).
 
 Moving solids: every rod as a capsule (radius OD/2, lengthened at each end by its
 ``rod_end_allowance_mm``), every rocker with plate data as a plate, every element with
-an ``envelope`` as a box.  Zones: the design's boxes, cylinders and prisms, fixed to the
-chassis, and one tyre envelope per corner (a cylinder of the tyre's radius and width
-about the wheel's spin axis, moving with the upright).  Pairs: each solid against each
-zone, and solids against each other unless they share a body (a rod and the rocker it
-drives, two rods on one rocker).  A solid with a pickup inside a zone at the design
-pose is not checked against that zone (that end is meant to be there); the report lists
-such pairs.  Distances are exact for separated pairs (:mod:`plumbrod.distance`);
-negative values are interference depths.
+an ``envelope`` as a box moving with it. Zones: the design's boxes, cylinders and
+prisms, fixed to the chassis, and one tyre envelope per corner (a cylinder of the tyre's
+radius and width about the wheel's spin axis, moving with the upright). Pairs: each
+solid against each zone, and solids against each other unless they share a body (a rod
+and the rocker it drives, two rods on one rocker). A solid with a pickup inside a zone
+at the design pose is not checked against that zone (that end is meant to be there); the
+report lists such pairs. A side-view planar design has no tyre envelopes: its parts all
+lie in one plane and the tyres stand beside it. Distances are exact for separated pairs
+(:mod:`plumbrod.distance`); negative values are interference depths.
 """
 
 from __future__ import annotations
@@ -122,6 +123,18 @@ def _moving_solids(analysis: Analysis, kins: list[Kinematics]) -> list[_Moving]:
         out.append(_Moving(f"rod '{rod.name}'", Capsule(a - grow * axis, b + grow * axis,
                                                         rod.od_mm / 2.0),
                            bodies, link.points[0, [ia, ib]], rod.name))
+    for element in design.elements:
+        env = element.envelope
+        if env is None:
+            continue
+        b = link.body(element.name)
+        r0 = _rotation_xyz(env.rotation_deg)
+        centre = (rot[:, b] @ np.array(env.centre_mm)) + trans[:, b]
+        anchors = np.array([p.position_mm for p in design.pickups.values()
+                            if p.body == element.name])
+        out.append(_Moving(f"envelope of element '{element.name}'",
+                           Box(centre, np.array(env.size_mm) / 2.0, rot[:, b] @ r0),
+                           frozenset({element.name}), anchors.reshape(-1, 3), None))
     for name, outline in rocker_outlines(design).items():
         b = link.body(name)
         verts = outline.vertices_3d(rot[:, b], trans[:, b], chord_tol_mm=0.5)

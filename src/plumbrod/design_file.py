@@ -25,6 +25,7 @@ from plumbrod.model import (
     Corner,
     Design,
     Element,
+    Envelope,
     Limits,
     LoadCase,
     MaterialSpec,
@@ -521,7 +522,7 @@ class _DesignBuilder:
             r.name(name, key)
             r.keys(etable, key,
                    ("kind", "mass_kg", "cg_mm", "centre_of_pressure_mm", "pickups", "aero",
-                    "inertia_kg_m2"),
+                    "inertia_kg_m2", "envelope"),
                    required=("mass_kg", "cg_mm", "centre_of_pressure_mm", "pickups"))
             aero = None
             if "aero" in etable:
@@ -548,8 +549,25 @@ class _DesignBuilder:
                         r.fail(f"{key}.inertia_kg_m2[{i}]", f"expected zero or more, got {v}",
                                "moments of inertia cannot be negative")
                 inertia = _as3(values)
+            envelope = None
+            if "envelope" in etable:
+                vkey = f"{key}.envelope"
+                vtable = r.keys(etable["envelope"], vkey, ("centre_mm", "size_mm",
+                                                           "rotation_deg"),
+                                required=("centre_mm", "size_mm"))
+                size = r.numbers(vtable["size_mm"], f"{vkey}.size_mm", 3, "[lx, ly, lz] in mm")
+                for i, v in enumerate(size):
+                    if v <= 0:
+                        r.fail(f"{vkey}.size_mm[{i}]", f"expected a positive size, got {v}",
+                               "give the box's full length along each axis")
+                envelope = Envelope(
+                    centre_mm=r.zone_point(vtable["centre_mm"], f"{vkey}.centre_mm"),
+                    size_mm=_as3(size),
+                    rotation_deg=_as3(r.numbers(vtable.get("rotation_deg", [0, 0, 0]),
+                                                f"{vkey}.rotation_deg", 3,
+                                                "[about x, about y, about z] in degrees")))
             elements.append(Element(
-                name=name, inertia_kg_m2=inertia,
+                name=name, inertia_kg_m2=inertia, envelope=envelope,
                 kind=r.string(etable.get("kind", "other"), f"{key}.kind", ELEMENT_KINDS),
                 mass_kg=r.number(etable["mass_kg"], f"{key}.mass_kg", non_negative=True),
                 cg_mm=r.point(etable["cg_mm"], f"{key}.cg_mm"),
@@ -946,8 +964,13 @@ def _mirrored(design: Design, reader: _Reader, pickup_where: dict[str, str]) -> 
             new = _right(element.name)
             if any(e.name == new for e in elements):
                 fail_twice("elements", new)
+            env = element.envelope
+            if env is not None:
+                rx, ry, rz = env.rotation_deg
+                env = Envelope(_flip(env.centre_mm), env.size_mm, (-rx, ry, -rz))
             elements.append(replace(element, name=new, cg_mm=_flip(element.cg_mm),
-                                    centre_of_pressure_mm=_flip(element.centre_of_pressure_mm)))
+                                    centre_of_pressure_mm=_flip(element.centre_of_pressure_mm),
+                                    envelope=env))
     pickups = dict(design.pickups)
     for key, pickup in design.pickups.items():
         if "left" in key:

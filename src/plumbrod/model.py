@@ -20,6 +20,7 @@ __all__ = [
     "Corner",
     "Design",
     "Element",
+    "Envelope",
     "Limits",
     "LoadCase",
     "MaterialSpec",
@@ -153,6 +154,16 @@ class AeroData:
 
 
 @dataclass(frozen=True)
+class Envelope:
+    """A box fixed in an element, for clearance: centre and full size in mm at the
+    design pose, rotation in degrees about x, then y, then z."""
+
+    centre_mm: Vec3
+    size_mm: Vec3
+    rotation_deg: Vec3 = (0.0, 0.0, 0.0)
+
+
+@dataclass(frozen=True)
 class Element:
     """A rigid aero element (wing, splitter, undertray) located by rods."""
 
@@ -164,6 +175,7 @@ class Element:
     aero: AeroData | None = None
     inertia_kg_m2: Vec3 | None = None
     """Moments of inertia about the cg along x, y, z (kg·m²); estimated when missing."""
+    envelope: Envelope | None = None
 
 
 @dataclass(frozen=True)
