@@ -144,7 +144,8 @@ def _check_version(dxf_version: str) -> str:
 def _new_document(dxf_version: str, layers: Iterable[LayerSpec]) -> Drawing:
     """A new mm document with the standard linetypes and styles and our layers."""
     ezdxf = _ezdxf()
-    doc = ezdxf.new(_check_version(dxf_version), setup=True, units=ezdxf.units.MM)
+    with _fixed_metadata():  # ezdxf stamps its creation marker here
+        doc = ezdxf.new(_check_version(dxf_version), setup=True, units=ezdxf.units.MM)
     doc.header["$INSUNITS"] = ezdxf.units.MM
     doc.header["$MEASUREMENT"] = 1
     doc.header["$LUNITS"] = 2
