@@ -470,8 +470,9 @@ def plate_drawing(outline: PlateOutline, name: str, *, material: str = "not give
 
     CUT_PROFILE: one closed LWPOLYLINE, the exact hull of the boss circles (tangent
     lines and true arcs as bulges).  CUT_HOLES: one CIRCLE per hole (diameter as
-    designed).  CENTRE_MARKS: a cross in every hole.  NOTES: hole names and diameters.
-    TITLE: rocker, material, thickness, "units: mm", cut length, area, frame, caution.
+    designed).  CENTRE_MARKS: a cross in every hole.
+    NOTES: hole names and diameters ("pivot d12").  TITLE: rocker, material, thickness,
+    "units: mm", cut length, area, frame, caution.
     """
     doc = _new_document(dxf_version, PLATE_LAYERS)
     msp = doc.modelspace()
@@ -479,6 +480,7 @@ def plate_drawing(outline: PlateOutline, name: str, *, material: str = "not give
     vertices = _profile_vertices(profile)
     msp.add_lwpolyline(vertices, format="xyb", close=True,
                        dxfattribs={"layer": CUT_PROFILE.name})
+    middle = np.mean([h.centre_uv for h in outline.holes], axis=0)
     for hole in outline.holes:
         r = hole.diameter_mm / 2.0
         cu, cv = hole.centre_uv
@@ -486,9 +488,17 @@ def plate_drawing(outline: PlateOutline, name: str, *, material: str = "not give
         arm = 0.6 * r
         _line(msp, (cu - arm, cv), (cu + arm, cv), CENTRE_MARKS.name)
         _line(msp, (cu, cv - arm), (cu, cv + arm), CENTRE_MARKS.name)
-        text = f"{hole.name} {hole.diameter_mm:g}"
-        _text(msp, text, (cu, cv + r + 0.5 * PLATE_TEXT_MM), PLATE_TEXT_MM * 0.8, NOTES.name,
-              align="BOTTOM_CENTER")
+        # the label beside the hole, towards the middle of the plate (away from the edge)
+        inward = middle - np.array(hole.centre_uv)
+        size = float(np.linalg.norm(inward))
+        inward = inward / size if size > 1e-9 else np.array([0.0, 1.0])
+        if abs(inward[0]) >= abs(inward[1]):
+            align = "MIDDLE_LEFT" if inward[0] > 0 else "MIDDLE_RIGHT"
+        else:
+            align = "BOTTOM_CENTER" if inward[1] > 0 else "TOP_CENTER"
+        anchor = np.array(hole.centre_uv) + inward * (r + 0.5 * PLATE_TEXT_MM)
+        _text(msp, f"{hole.name} d{hole.diameter_mm:g}", anchor, PLATE_TEXT_MM * 0.8,
+              NOTES.name, align=align)
 
     pts = profile.sample_uv(0.1)
     lo = pts.min(axis=0)
