@@ -6,5 +6,7 @@ their top-level imports light (argparse and the standard library); heavy imports
 inside ``run`` so that ``plumbrod --help`` and ``plumbrod check`` start fast.
 """
 
-COMMAND_MODULES: tuple[str, ...] = ("check", "sweep", "plot", "column", "size", "new", "demo")
+COMMAND_MODULES: tuple[str, ...] = (
+    "check", "sweep", "plot", "column", "size", "export", "new", "demo",
+)
 """Verbs in the order ``--help`` lists them; a module missing here is not offered."""

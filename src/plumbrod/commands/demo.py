@@ -20,7 +20,7 @@ def register(subparsers: Any) -> None:
             "Run the whole job on the bundled example (an invented hillclimb car's front "
             "splitter hung from its lower wishbones through two rockers): check it, print "
             "the report, and write the design, the text and JSON reports, the sweep "
-            "table and the PNG figures into the output folder."
+            "table, the PNG figures and the DXF drawing into the output folder."
         ),
         epilog=CAUTION,
     )
@@ -32,6 +32,7 @@ def register(subparsers: Any) -> None:
 def run(args: argparse.Namespace) -> int:
     from plumbrod.analysis import Analysis
     from plumbrod.atomic import write_many
+    from plumbrod.commands.export import export_files
     from plumbrod.design_file import parse_design
     from plumbrod.findings import review
     from plumbrod.plots import plot_findings
@@ -54,6 +55,7 @@ def run(args: argparse.Namespace) -> int:
         out / f"{stem}-sweep.csv": table_csv(*pose_table(analysis)),
     })
     written += plot_findings(findings, out, stem)
+    written += export_files(analysis, out, stem=stem)
     print("")
     for path in written:
         print(f"wrote {path}")
@@ -63,6 +65,7 @@ def run(args: argparse.Namespace) -> int:
     print(f"  plumbrod check {design_path} --json     the same report as JSON")
     print(f"  plumbrod sweep {design_path}            every pose as a CSV table")
     print(f"  plumbrod plot {design_path}             the figures again, for your own designs")
+    print(f"  plumbrod export {design_path} --png     DXF drawings and plate cut profiles")
     print(f"  plumbrod size {design_path}             lighter tubes that keep the reserves")
     print("  plumbrod column --od 16 --wall 1 --length 400 --material 4130-N --load -2000")
     print("  the other examples: examples/ in the source tree (see examples/README.md)")
