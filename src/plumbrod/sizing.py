@@ -25,7 +25,7 @@ from plumbrod.materials import Material
 from plumbrod.members import Member, material_table
 from plumbrod.sections import Section, catalogue_sections
 
-__all__ = ["SizingChoice", "apply_sizes", "choose_sections", "file_rod_name"]
+__all__ = ["SizingChoice", "apply_sizes", "choose_sections", "file_rod_name", "thinnest_wall_mm"]
 
 
 @dataclass(frozen=True)
@@ -114,6 +114,44 @@ def choose_sections(
         choices.append(SizingChoice(entry, tuple(rods), before, section, material, mass, rf_b,
                                     rf_t))
     return choices
+
+
+def thinnest_wall_mm(member: Member, compression_N: float, tension_N: float,
+                     buckling_reserve: float, tension_reserve: float) -> float | None:
+    """The thinnest wall (mm) at the member's own OD and material that meets both reserves.
+
+    Both reserve factors grow with the wall at a fixed OD, so each limit has one root,
+    found with scipy's ``brentq``; the answer is the larger root.  ``None`` when even a
+    solid bar of that OD falls short.  For tubes outside the catalogue.
+    """
+    from scipy.optimize import brentq
+
+    od = member.section.od_mm
+    m = member.material
+    length, k = member.length_mm, member.rod.end_fixity
+
+    def props(wall: float) -> tuple[float, float]:
+        inner = od - 2.0 * wall
+        return (np.pi / 4.0 * (od**2 - inner**2), np.pi / 64.0 * (od**4 - inner**4))
+
+    def buckling(wall: float) -> float:
+        area, inertia = props(wall)
+        p_cr = float(critical_load_N(area, inertia, length, k, m.modulus_MPa, m.yield_MPa))
+        return p_cr / abs(compression_N) - buckling_reserve
+
+    def tension(wall: float) -> float:
+        return m.yield_MPa * props(wall)[0] / tension_N - tension_reserve
+
+    low, high = 1e-6 * od, od / 2.0
+    need = 0.0
+    for rule, active in ((buckling, compression_N < 0), (tension, tension_N > 0)):
+        if not active:
+            continue
+        if rule(high) < 0:
+            return None
+        if rule(low) < 0:
+            need = max(need, float(brentq(rule, low, high, xtol=1e-9)))
+    return need
 
 
 _HEADER = re.compile(r'^\s*\[\s*rods\s*\.\s*(?P<name>"[^"]+"|[A-Za-z0-9_\-]+)\s*\]\s*(#.*)?$')

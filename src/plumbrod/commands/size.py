@@ -59,7 +59,7 @@ def run(args: argparse.Namespace) -> int:
     from plumbrod.errors import UsageError
     from plumbrod.findings import review
     from plumbrod.members import material_table
-    from plumbrod.sizing import apply_sizes, choose_sections
+    from plumbrod.sizing import apply_sizes, choose_sections, thinnest_wall_mm
 
     source = Path(args.design)
     design = load_design(source)
@@ -95,19 +95,27 @@ def run(args: argparse.Namespace) -> int:
             from None
     sized = review(parse_design(new_text, str(target)))
 
-    rows = [("rod", "before", "mass g", "RF buck", "RF tens", "after", "mass g", "RF buck",
-             "RF tens")]
+    rows = [("rod", "before", "mass g", "RF buck", "RF tens", "thinnest wall", "after",
+             "mass g", "RF buck", "RF tens")]
+    limits = design.limits
     total_before = total_after = 0.0
     for choice in choices:
         b = choice.before
         old = findings.reserves[choice.rods[0]]
+        worst_c = min((findings.reserves[r].compression.force_N for r in choice.rods
+                       if findings.reserves[r].compression), default=0.0)
+        worst_t = max((findings.reserves[r].tension.force_N for r in choice.rods
+                       if findings.reserves[r].tension), default=0.0)
+        wall = thinnest_wall_mm(b, worst_c, worst_t, limits.buckling_reserve,
+                                limits.tension_reserve)
+        thinnest = "bar too weak" if wall is None else f"{wall:.3f} at OD {b.section.od_mm:g}"
         before = f"{_section(b.section)} {b.material.id}"
         count = len(choice.rods)
         total_before += b.mass_kg * count
         if choice.section is None:
             rows.append((choice.entry, before, f"{b.mass_kg * 1000:.0f}",
-                         _rf(old.buckling_rf), _rf(old.tension_rf), "NONE: " + choice.reason,
-                         "", "", ""))
+                         _rf(old.buckling_rf), _rf(old.tension_rf), thinnest,
+                         "NONE: " + choice.reason, "", "", ""))
             total_after += b.mass_kg * count
             continue
         new = min((sized.reserves[r] for r in choice.rods), key=lambda x: x.buckling_rf)
@@ -116,7 +124,7 @@ def run(args: argparse.Namespace) -> int:
         assert choice.material is not None
         rows.append((choice.entry + (f" (x{count})" if count > 1 else ""), before,
                      f"{b.mass_kg * 1000:.0f}", _rf(old.buckling_rf), _rf(old.tension_rf),
-                     f"{_section(choice.section)} {choice.material.id}",
+                     thinnest, f"{_section(choice.section)} {choice.material.id}",
                      f"{choice.mass_kg * 1000:.0f}", _rf(new.buckling_rf), _rf(new_t)))
     widths = [max(len(r[i]) for r in rows) for i in range(len(rows[0]))]
     for r in rows:
@@ -124,7 +132,8 @@ def run(args: argparse.Namespace) -> int:
     print(f"rod mass {total_before * 1000:.0f} g -> {total_after * 1000:.0f} g "
           f"({(total_after - total_before) * 1000:+.0f} g)")
     print("forces come from the design as it was; the sized copy was re-analysed and its "
-          "reserve factors are shown under 'after'")
+          "reserve factors are shown under 'after'; 'thinnest wall' is the least wall (mm) "
+          "at the rod's present OD and material that meets both reserves")
     write_atomic(target, new_text)
     print(f"wrote {target}")
     verdict_ok = all(c.section is not None for c in choices)
