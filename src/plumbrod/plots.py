@@ -47,9 +47,7 @@ def plot_route_ratio(findings: Findings, ax: Axes) -> list[Any]:
     drawn.append(ax.axhspan(lo, hi, color="0.9", zorder=0, label=f"limit {lo:g} to {hi:g}"))
     for route, ratio in fig.route_ratio.items():
         drawn += ax.plot(travel, ratio, label=route)
-    ax.set_xlabel("wheel travel, mm (+ bump)")
-    ax.set_ylabel("route ratio, mm/mm")
-    ax.set_title("Route ratio")
+    _label_travel_axes(ax, "route ratio, mm/mm", "Route ratio")
     ax.legend(fontsize="small")
     return drawn
 
@@ -78,6 +76,12 @@ def plot_ride_height(findings: Findings, ax: Axes) -> list[Any]:
     return drawn
 
 
+def _label_travel_axes(ax: Axes, ylabel: str, title: str) -> None:
+    ax.set_xlabel("wheel travel, mm (+ bump)")
+    ax.set_ylabel(ylabel)
+    ax.set_title(title)
+
+
 def plot_line_of_action(findings: Findings, ax: Axes) -> list[Any]:
     analysis = findings.analysis
     drawn: list[Any] = []
@@ -89,9 +93,7 @@ def plot_line_of_action(findings: Findings, ax: Axes) -> list[Any]:
         drawn += ax.plot(travel, angle, label=rod)
     limit = analysis.design.limits.line_of_action_deg
     drawn.append(ax.axhline(limit, **_LIMIT_STYLE, label=f"limit {limit:g}°"))
-    ax.set_xlabel("wheel travel, mm (+ bump)")
-    ax.set_ylabel("angle from vertical, deg")
-    ax.set_title("Line of action of route rods")
+    _label_travel_axes(ax, "angle from vertical, deg", "Line of action of route rods")
     ax.set_ylim(bottom=0.0)
     ax.legend(fontsize="small")
     return drawn
@@ -110,9 +112,7 @@ def plot_transmission(findings: Findings, ax: Axes) -> list[Any]:
     drawn.append(ax.axhline(lo, **_LIMIT_STYLE, label=f"limits {lo:g}° and {hi:g}°"))
     drawn.append(ax.axhline(hi, **_LIMIT_STYLE))
     ax.set_ylim(0.0, 180.0)
-    ax.set_xlabel("wheel travel, mm (+ bump)")
-    ax.set_ylabel("transmission angle, deg")
-    ax.set_title("Transmission angles")
+    _label_travel_axes(ax, "transmission angle, deg", "Transmission angles")
     if fig.transmission_labels:
         ax.legend(fontsize="x-small")
     else:
@@ -149,11 +149,10 @@ def plot_forces(findings: Findings, ax: Axes, case: int) -> list[Any]:
             shown += 1
     ax.axhline(0.0, color="0.6", linewidth=0.8)
     ax.set_ylim(bottom, high + 0.15 * span)
-    ax.set_xlabel("wheel travel, mm (+ bump)")
-    ax.set_ylabel("rod force, N (+ tension)")
     note = (f"dotted: -P_cr/{required:g} of the rods near it" if shown else
             f"every compression rod's -P_cr/{required:g} lies below this range")
-    ax.set_title(f"Rod forces, load case '{st.cases[case]}' ({note})")
+    _label_travel_axes(ax, "rod force, N (+ tension)",
+                       f"Rod forces, load case '{st.cases[case]}' ({note})")
     ax.legend(fontsize="x-small", ncol=2)
     return drawn
 
