@@ -13,11 +13,11 @@ from pathlib import Path
 import numpy as np
 from numpy.typing import NDArray
 
-from plumbrod.design_file import parse_design
-from plumbrod.drives import BodyDrive, TravelDrive
-from plumbrod.linkage import Linkage, build_linkage
-from plumbrod.model import CHASSIS, Design
-from plumbrod.sweeps import SweepResult, SweepSpec, run_sweep
+from plumbrod.design.loading import parse_design
+from plumbrod.kinematics.drives import BodyDrive, TravelDrive
+from plumbrod.kinematics.linkage import Linkage, build_linkage
+from plumbrod.design.model import CHASSIS, Design
+from plumbrod.kinematics.sweeps import SweepResult, SweepSpec, run_sweep
 
 __all__ = [
     "EXAMPLE",

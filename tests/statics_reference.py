@@ -3,7 +3,7 @@ force and moment sums on every body, rebuilt from the design and the solved posi
 
 Nothing here uses plumbrod's loads or statics code: only the design values (masses,
 aero data, sections, material densities), the solved point positions and the forces a
-:class:`plumbrod.statics.Statics` reports, so the sums test those forces.
+:class:`plumbrod.mechanics.statics.Statics` reports, so the sums test those forces.
 
 Frames: everything in the chassis frame, moments about the chassis origin (N·mm).
 """
@@ -16,14 +16,14 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from plumbrod.analysis import Analysis
-from plumbrod.linkage import HINGE, SLIDE
-from plumbrod.loads import design_load_cases
-from plumbrod.members import material_table
-from plumbrod.model import CHASSIS, Design, LoadCase
-from plumbrod.plates import rocker_mass_kg
-from plumbrod.statics import Statics
-from plumbrod.sweeps import SweepResult
+from plumbrod.mechanics.analysis import Analysis
+from plumbrod.kinematics.linkage import HINGE, SLIDE
+from plumbrod.mechanics.loads import design_load_cases
+from plumbrod.mechanics.members import material_table
+from plumbrod.design.model import CHASSIS, Design, LoadCase
+from plumbrod.mechanics.plates import rocker_mass_kg
+from plumbrod.mechanics.statics import Statics
+from plumbrod.kinematics.sweeps import SweepResult
 
 __all__ = [
     "G0_M_S2",

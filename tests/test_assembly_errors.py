@@ -12,8 +12,8 @@ from pathlib import Path
 import pytest
 
 from designs import SideChain, side_chain_text
-from plumbrod.analysis import analyse
-from plumbrod.design_file import parse_design
+from plumbrod.mechanics.analysis import analyse
+from plumbrod.design.loading import parse_design
 from plumbrod.errors import AssemblyError
 
 SRC = Path(__file__).resolve().parents[1] / "src"

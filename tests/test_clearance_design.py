@@ -2,7 +2,7 @@
 
 The distance kernels are tested against hand-computed cases, dense sampling and shapely
 in test_distance.py.  Here the reference is brute force over the solved poses: every
-pose measured with :func:`plumbrod.distance.separation` (an exact per-pose kernel, no
+pose measured with :func:`plumbrod.clearance.distance.separation` (an exact per-pose kernel, no
 pose skipped), compared with what the clearance report found while skipping poses.
 """
 
@@ -16,12 +16,12 @@ import numpy as np
 import pytest
 
 from designs import EXAMPLE, FrontChain, front_chain_text, replace_once
-from plumbrod.analysis import analyse
-from plumbrod.clearance import ClearanceReport, clearance_report, zone_solids
-from plumbrod.design_file import parse_design
-from plumbrod.distance import separation
-from plumbrod.plates import rocker_outlines
-from plumbrod.shapes import Box, Capsule, Plate
+from plumbrod.mechanics.analysis import analyse
+from plumbrod.clearance.survey import ClearanceReport, clearance_report, zone_solids
+from plumbrod.design.loading import parse_design
+from plumbrod.clearance.distance import separation
+from plumbrod.mechanics.plates import rocker_outlines
+from plumbrod.geometry.shapes import Box, Capsule, Plate
 
 
 def _all_points(analysis):  # (poses of every sweep, np, 3), rotations, translations

@@ -10,7 +10,7 @@ from hypothesis import given
 from hypothesis import strategies as st
 from scipy.optimize import brentq
 
-from plumbrod.columns import (
+from plumbrod.mechanics.columns import (
     END_CONDITIONS,
     ColumnResult,
     analyse_column,
@@ -27,7 +27,7 @@ from plumbrod.columns import (
     tension_reserve_factor,
     transition_slenderness,
 )
-from plumbrod.sections import Section, tube_area_mm2, tube_second_moment_mm4
+from plumbrod.design.sections import Section, tube_area_mm2, tube_second_moment_mm4
 
 # source: 1 in = 25.4 mm and 1 lbf = 0.45359237 kg × 9.80665 m/s², both exact by
 # definition (NIST SP 811, 2008 ed., Appendix B), pub.

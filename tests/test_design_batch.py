@@ -7,10 +7,10 @@ import numpy as np
 import pytest
 
 from designs import EXAMPLE
-from plumbrod.design_file import parse_design
-from plumbrod.drives import BodyDrive, TravelDrive
-from plumbrod.linkage import build_linkage
-from plumbrod.solver import solve_poses
+from plumbrod.design.loading import parse_design
+from plumbrod.kinematics.drives import BodyDrive, TravelDrive
+from plumbrod.kinematics.linkage import build_linkage
+from plumbrod.kinematics.solver import solve_poses
 
 
 def _candidates():

@@ -13,8 +13,8 @@ from hypothesis import strategies as st
 from scipy.spatial import cKDTree
 from scipy.spatial.transform import Rotation
 
-from plumbrod.distance import least_separation, least_separations, separation
-from plumbrod.shapes import Box, Capsule, Cylinder, GeometryError, Plate, Prism
+from plumbrod.clearance.distance import least_separation, least_separations, separation
+from plumbrod.geometry.shapes import Box, Capsule, Cylinder, GeometryError, Plate, Prism
 
 # pyproject's norecursedirs replaces pytest's defaults, so a '.hypothesis' folder in the
 # work tree makes the next collection warn (an error under filterwarnings=error): keep
@@ -661,7 +661,7 @@ def test_bad_inputs_raise(make, match):
 def test_segment_prism_kernels_agree():
     # two independent exact methods inside the package (edge features with clipping, and
     # the break points of the squared distance along the segment) must agree
-    from plumbrod import _distance_kernels as kern
+    from plumbrod.clearance import _distance_kernels as kern
 
     rng = np.random.default_rng(11)
     n, m = 4000, 5

@@ -26,9 +26,9 @@ from scipy.spatial.transform import Rotation
 
 import plumbrod
 from designs import EXAMPLE, ROOT, replace_once
-from plumbrod.analysis import Analysis, analyse
-from plumbrod.design_file import load_design
-from plumbrod.dxf_export import (
+from plumbrod.mechanics.analysis import Analysis, analyse
+from plumbrod.design.loading import load_design
+from plumbrod.outputs.dxf_export import (
     CUT_LAYERS,
     PLATE_LAYERS,
     ROUTE_LAYERS,
@@ -37,9 +37,9 @@ from plumbrod.dxf_export import (
     export_design,
     route_drawing,
 )
-from plumbrod.dxf_preview import preview_png, view_matrix
+from plumbrod.outputs.dxf_preview import preview_png, view_matrix
 from plumbrod.errors import UsageError
-from plumbrod.plates import rocker_outlines
+from plumbrod.mechanics.plates import rocker_outlines
 
 UNDERTRAY = ROOT / "examples" / "planar_undertray.toml"
 VERSIONS = {"R2010": "AC1024", "R2000": "AC1015"}

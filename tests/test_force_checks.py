@@ -21,8 +21,8 @@ from designs import (
     side_chain_text,
     splayed_struts_text,
 )
-from plumbrod.analysis import Analysis, analyse
-from plumbrod.checks import (
+from plumbrod.mechanics.analysis import Analysis, analyse
+from plumbrod.verdict.checks import (
     WARN_FRACTION,
     check_line_of_action,
     check_member_force,

@@ -31,12 +31,12 @@ from designs import (
     side_chain_text,
     travel_sweep,
 )
-from plumbrod.analysis import analyse
-from plumbrod.drives import TravelDrive
-from plumbrod.figures import ride_heights, route_ratios
-from plumbrod.linkage import Linkage
-from plumbrod.routes import find_routes
-from plumbrod.solver import solve_poses
+from plumbrod.mechanics.analysis import analyse
+from plumbrod.kinematics.drives import TravelDrive
+from plumbrod.kinematics.figures import ride_heights, route_ratios
+from plumbrod.kinematics.linkage import Linkage
+from plumbrod.kinematics.routes import find_routes
+from plumbrod.kinematics.solver import solve_poses
 
 LENGTH_TOL_MM = 1e-9
 
@@ -262,8 +262,8 @@ def test_route_ratio_matches_a_sympy_derivation_of_a_planar_chain() -> None:
 def test_route_ratio_matches_scipy_derivative_on_the_example() -> None:
     # source: scipy.differentiate.derivative (adaptive central finite differences with
     # Richardson extrapolation), on positions solved one wheel at a time.
-    from plumbrod.design_file import load_design
-    from plumbrod.linkage import build_linkage
+    from plumbrod.design.loading import load_design
+    from plumbrod.kinematics.linkage import build_linkage
 
     design = load_design(EXAMPLE)
     link = build_linkage(design)

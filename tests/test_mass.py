@@ -26,9 +26,9 @@ from __future__ import annotations
 
 import pytest
 
-from plumbrod.analysis import analyse
-from plumbrod.design_file import parse_design
-from plumbrod.mass import MassReport, mass_report
+from plumbrod.mechanics.analysis import analyse
+from plumbrod.design.loading import parse_design
+from plumbrod.mechanics.mass import MassReport, mass_report
 from structure_designs import (
     FEATHER,
     STEEL_4130N,

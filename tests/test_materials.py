@@ -8,7 +8,7 @@ import math
 import pytest
 
 from plumbrod.errors import PlumbrodError
-from plumbrod.materials import (
+from plumbrod.design.materials import (
     BASES,
     Material,
     UnknownMaterialError,

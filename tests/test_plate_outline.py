@@ -8,9 +8,9 @@ import numpy as np
 import pytest
 import shapely
 
-from plumbrod.distance import separation
-from plumbrod.plate_outline import plate_outline, quad_segs_for
-from plumbrod.shapes import Box, GeometryError, Plate
+from plumbrod.clearance.distance import separation
+from plumbrod.geometry.plate_outline import plate_outline, quad_segs_for
+from plumbrod.geometry.shapes import Box, GeometryError, Plate
 
 
 def _stadium(d_hole=10.0, margin=5.0, spacing=80.0, tol=0.01):

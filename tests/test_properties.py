@@ -27,8 +27,8 @@ from designs import (
     side_chain_text,
     travel_sweep,
 )
-from plumbrod.drives import TravelDrive
-from plumbrod.solver import newton
+from plumbrod.kinematics.drives import TravelDrive
+from plumbrod.kinematics.solver import newton
 
 TOL_MM = 1e-9
 TRAVEL_MM = np.linspace(-30.0, 30.0, 13)  # 5 mm apart, 0 in the middle

@@ -13,8 +13,8 @@ from hypothesis import given
 from hypothesis import strategies as st
 from shapely.geometry import Point
 
-from plumbrod.materials import lookup_material
-from plumbrod.sections import (
+from plumbrod.design.materials import lookup_material
+from plumbrod.design.sections import (
     Section,
     catalogue_sections,
     tube_area_mm2,
@@ -163,7 +163,7 @@ def test_catalogue_is_sorted_by_area_and_filtered_by_system() -> None:
 
 
 def test_catalogue_inch_rows_convert_exactly_and_state_their_source() -> None:
-    text = resources.files("plumbrod").joinpath("data", "tubes.toml").read_text("utf-8")
+    text = resources.files("plumbrod.design").joinpath("data", "tubes.toml").read_text("utf-8")
     data = tomllib.loads(text)
     # No published dimension table could be confirmed for this list.
     assert data["catalogue"]["source"] == "common practice, no source"

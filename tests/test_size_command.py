@@ -21,9 +21,9 @@ from pathlib import Path
 import pytest
 
 import plumbrod
-from plumbrod.design_file import parse_design
-from plumbrod.findings import Findings, review
-from plumbrod.model import Design
+from plumbrod.design.loading import parse_design
+from plumbrod.verdict.findings import Findings, review
+from plumbrod.design.model import Design
 from structure_designs import (
     FEATHER,
     STEEL_4130N,
@@ -35,7 +35,7 @@ from structure_designs import (
 )
 
 EXAMPLE = Path(__file__).resolve().parents[1] / "examples" / "hillclimb_splitter.toml"
-TUBES = Path(plumbrod.__file__).resolve().parent / "data" / "tubes.toml"
+TUBES = Path(plumbrod.__file__).resolve().parent / "design" / "data" / "tubes.toml"
 # source: standard acceleration of gravity 9.80665 m/s² (3rd CGPM, 1901), pub.
 G0_M_S2 = 9.80665
 SECTION_KEYS = re.compile(r"^\s*(od_mm|wall_mm|material|solid)\s*=")

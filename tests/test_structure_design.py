@@ -22,8 +22,8 @@ from pathlib import Path
 import pytest
 
 import plumbrod
-from plumbrod.design_file import parse_design
-from plumbrod.findings import Findings, review
+from plumbrod.design.loading import parse_design
+from plumbrod.verdict.findings import Findings, review
 from structure_designs import (
     FEATHER,
     STEEL_4130N,

@@ -7,11 +7,11 @@ import math
 
 import pytest
 
-from plumbrod.materials import load_materials
-from plumbrod.members import Member
-from plumbrod.model import Rod
-from plumbrod.sections import Section
-from plumbrod.sizing import thinnest_wall_mm
+from plumbrod.design.materials import load_materials
+from plumbrod.mechanics.members import Member
+from plumbrod.design.model import Rod
+from plumbrod.design.sections import Section
+from plumbrod.revise.sizing import thinnest_wall_mm
 
 
 def _member(od: float, length: float, material: str = "4130-N") -> Member:

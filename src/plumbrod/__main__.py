@@ -2,6 +2,6 @@
 
 import sys
 
-from plumbrod.cli import main
+from plumbrod.cli.main import main
 
 sys.exit(main())

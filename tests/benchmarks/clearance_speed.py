@@ -26,8 +26,8 @@ import time  # noqa: E402
 
 import numpy as np  # noqa: E402
 
-from plumbrod.distance import least_separations  # noqa: E402
-from plumbrod.shapes import Box, Capsule, Cylinder, Plate, Prism  # noqa: E402
+from plumbrod.clearance.distance import least_separations  # noqa: E402
+from plumbrod.geometry.shapes import Box, Capsule, Cylinder, Plate, Prism  # noqa: E402
 
 POSES = 2000
 REPEATS = 7

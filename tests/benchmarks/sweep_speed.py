@@ -32,13 +32,13 @@ from pathlib import Path
 import numpy as np
 from scipy.optimize import fsolve
 
-from plumbrod.analysis import analyse
-from plumbrod.clearance import clearance_report
-from plumbrod.design_file import parse_design
-from plumbrod.drives import BodyDrive, TravelDrive
-from plumbrod.linkage import Linkage, Pose, build_linkage, rotation_vector_matrix
-from plumbrod.solver import RESIDUAL_TOL_MM, evaluate, solve_poses
-from plumbrod.templates import BUNDLED_EXAMPLE, read_template
+from plumbrod.mechanics.analysis import analyse
+from plumbrod.clearance.survey import clearance_report
+from plumbrod.design.loading import parse_design
+from plumbrod.kinematics.drives import BodyDrive, TravelDrive
+from plumbrod.kinematics.linkage import Linkage, Pose, build_linkage, rotation_vector_matrix
+from plumbrod.kinematics.solver import RESIDUAL_TOL_MM, evaluate, solve_poses
+from plumbrod.design.templates import BUNDLED_EXAMPLE, read_template
 
 
 def timed(fn, repeats: int) -> tuple[float, object]:

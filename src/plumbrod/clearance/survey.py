@@ -1,0 +1,267 @@
+"""Clearance: the least distance between moving solids and keep-out zones over every pose
+of every sweep (DESIGN §5 item 10).
+
+Moving solids: every rod as a capsule (radius OD/2, lengthened at each end by its
+``rod_end_allowance_mm``), every rocker with plate data as a plate, every element with
+an ``envelope`` as a box moving with it. Zones: the design's boxes, cylinders and
+prisms, fixed to the chassis, and one tyre envelope per corner (a cylinder of the tyre's
+radius and width about the wheel's spin axis, moving with the upright). Pairs: each
+solid against each zone, and solids against each other unless they share a body (a rod
+and the rocker it drives, two rods on one rocker). A solid with a pickup inside a zone
+at the design pose is not checked against that zone (that end is meant to be there); the
+report lists such pairs. A side-view planar design has no tyre envelopes: its parts all
+lie in one plane and the tyres stand beside it. Distances are exact for separated pairs
+(:mod:`plumbrod.clearance.distance`); negative values are interference depths.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+from numpy.typing import NDArray
+
+from plumbrod.mechanics.analysis import Analysis
+from plumbrod.clearance.distance import least_separations, separation
+from plumbrod.kinematics.linkage import Kinematics
+from plumbrod.mechanics.plates import rocker_outlines
+from plumbrod.geometry.shapes import Box, Capsule, Cylinder, Plate, Prism, Solid
+
+__all__ = ["ClearancePair", "ClearanceReport", "clearance_report", "zone_solids"]
+
+Array = NDArray[np.float64]
+
+
+FAR_MM = 50.0
+"""Pairs whose swept bounding boxes stay this much beyond their limit apart are not
+measured exactly: their distance is reported as that lower bound ("more than")."""
+
+
+@dataclass(frozen=True)
+class ClearancePair:
+    """The least distance of one pair over every pose, and where it happens.
+
+    ``exact`` is False for a far pair: ``distance_mm`` is then a lower bound and the
+    pose and points are not known (``pose`` = -1).
+    """
+
+    a: str
+    b: str
+    distance_mm: float
+    limit_mm: float
+    sweep: str
+    pose: int
+    point_a: tuple[float, float, float]
+    point_b: tuple[float, float, float]
+    exact: bool = True
+
+    @property
+    def margin_mm(self) -> float:
+        return self.distance_mm - self.limit_mm
+
+
+@dataclass(frozen=True)
+class ClearanceReport:
+    pairs: tuple[ClearancePair, ...]
+    """Every pair measured, closest to its limit first."""
+    skipped: tuple[str, ...]
+    rod_margin_mm: dict[str, float]
+    """Least (distance − limit) over every pair a rod is in (inf when none)."""
+    poses: int
+
+
+def _rotation_xyz(angles_deg: tuple[float, float, float]) -> Array:
+    ax, ay, az = np.radians(angles_deg)
+    rx = np.array([[1, 0, 0], [0, np.cos(ax), -np.sin(ax)], [0, np.sin(ax), np.cos(ax)]])
+    ry = np.array([[np.cos(ay), 0, np.sin(ay)], [0, 1, 0], [-np.sin(ay), 0, np.cos(ay)]])
+    rz = np.array([[np.cos(az), -np.sin(az), 0], [np.sin(az), np.cos(az), 0], [0, 0, 1]])
+    return rz @ ry @ rx
+
+
+def zone_solids(analysis: Analysis) -> dict[str, tuple[Solid, float]]:
+    """The design's fixed zones as solids, with each one's clearance limit (mm)."""
+    default = analysis.design.limits.clearance_mm
+    out: dict[str, tuple[Solid, float]] = {}
+    for zone in analysis.design.zones:
+        p = zone.params
+        limit = default if zone.clearance_mm is None else zone.clearance_mm
+        solid: Solid
+        if zone.kind == "box":
+            solid = Box(np.array(p["centre_mm"]), np.array(p["size_mm"]) / 2.0,
+                        _rotation_xyz(p["rotation_deg"]))  # type: ignore[arg-type]
+        elif zone.kind == "cylinder":
+            a, b = p["axis_mm"]  # type: ignore[misc]
+            solid = Cylinder(np.array(a), np.array(b), float(p["radius_mm"]))  # type: ignore[arg-type]
+        else:
+            d0, d1 = p["depth_mm"]  # type: ignore[misc]
+            solid = Prism(np.array(p["outline_mm"]), p["plane"], d0, d1)  # type: ignore[arg-type]
+        out[f"zone '{zone.name}'"] = (solid, limit)
+    return out
+
+
+@dataclass(frozen=True)
+class _Moving:
+    name: str
+    solid: Solid
+    bodies: frozenset[str]
+    anchors: Array  # (k, 3) design points that join it to its bodies
+    rod: str | None
+
+
+def _moving_solids(analysis: Analysis, kins: list[Kinematics]) -> list[_Moving]:
+    link, design = analysis.link, analysis.design
+    pts = np.concatenate([k.points for k in kins])
+    rot = np.concatenate([k.rotation for k in kins])
+    trans = np.concatenate([k.translation for k in kins])
+    out: list[_Moving] = []
+    for rod in design.rods:
+        ia, ib = link.point(rod.end_a), link.point(rod.end_b)
+        a, b = pts[:, ia], pts[:, ib]
+        axis = (b - a) / np.linalg.norm(b - a, axis=-1, keepdims=True)
+        grow = rod.rod_end_allowance_mm
+        bodies = frozenset({design.pickups[rod.end_a].body, design.pickups[rod.end_b].body})
+        out.append(_Moving(f"rod '{rod.name}'", Capsule(a - grow * axis, b + grow * axis,
+                                                        rod.od_mm / 2.0),
+                           bodies, link.points[0, [ia, ib]], rod.name))
+    for element in design.elements:
+        env = element.envelope
+        if env is None:
+            continue
+        b = link.body(element.name)
+        r0 = _rotation_xyz(env.rotation_deg)
+        centre = (rot[:, b] @ np.array(env.centre_mm)) + trans[:, b]
+        anchors = np.array([p.position_mm for p in design.pickups.values()
+                            if p.body == element.name])
+        out.append(_Moving(f"envelope of element '{element.name}'",
+                           Box(centre, np.array(env.size_mm) / 2.0, rot[:, b] @ r0),
+                           frozenset({element.name}), anchors.reshape(-1, 3), None))
+    for name, outline in rocker_outlines(design).items():
+        b = link.body(name)
+        verts = outline.vertices_3d(rot[:, b], trans[:, b], chord_tol_mm=0.5)
+        rocker = next(r for r in design.rockers if r.name == name)
+        anchors = np.array([p.position_mm for p in design.pickups.values() if p.body == name]
+                           + [rocker.axis_a_mm])
+        out.append(_Moving(f"plate of rocker '{name}'", Plate(verts, outline.thickness_mm),
+                           frozenset({name, rocker.parent}), anchors, None))
+    return out
+
+
+def clearance_report(analysis: Analysis) -> ClearanceReport:
+    """Least distances of every pair over the poses of every sweep."""
+    design, link = analysis.design, analysis.link
+    names = list(analysis.sweeps)
+    kins = [analysis.sweeps[n].solved.kin for n in names]
+    sizes = [analysis.sweeps[n].spec.size for n in names]
+    starts = np.cumsum([0, *sizes])
+    moving = _moving_solids(analysis, kins)
+    zones = zone_solids(analysis)
+    default = design.limits.clearance_mm
+
+    # tyre envelopes move with their uprights
+    pts = np.concatenate([k.points for k in kins])
+    rot = np.concatenate([k.rotation for k in kins])
+    tyres: dict[str, tuple[Solid, float, Solid]] = {}
+    # in a side-view planar design every part lies in one plane, the tyres beside it
+    corners = [] if design.plane == "side" else list(enumerate(design.corners))
+    for c, corner in corners:
+        centre = pts[:, link.wheel_centre[c]]
+        spin = rot[:, link.corner_upright[c]] @ link.spin_axis[c]
+        half = corner.tyre_width_mm / 2.0
+        c0, s0 = np.array(corner.wheel_centre_mm), link.spin_axis[c]
+        at_rest = Cylinder(c0 - half * s0, c0 + half * s0, corner.tyre_radius_mm)
+        tyres[f"tyre '{corner.name}'"] = (Cylinder(centre - half * spin, centre + half * spin,
+                                                   corner.tyre_radius_mm), default, at_rest)
+
+    pairs: list[tuple[Solid, Solid]] = []
+    meta: list[tuple[str, str, float, str | None, str | None]] = []
+    skipped: list[str] = []
+    fixed = {name: (zone, limit, zone) for name, (zone, limit) in zones.items()}
+    every = {**fixed, **tyres}
+    inside = _anchors_inside(moving, {name: rest for name, (_, _, rest) in every.items()})
+    for m_index, m in enumerate(moving):
+        for zname, (zone, limit, _) in every.items():
+            if inside[zname][m_index]:
+                skipped.append(f"{m.name} has a joint inside {zname}: not checked against it")
+                continue
+            pairs.append((m.solid, zone))
+            meta.append((m.name, zname, limit, m.rod, None))
+    for i, a in enumerate(moving):
+        for b in moving[i + 1:]:
+            if a.bodies & b.bodies:
+                continue
+            pairs.append((a.solid, b.solid))
+            meta.append((a.name, b.name, default, a.rod, b.rod))
+    bounds = [_box_gap(_bounds(a), _bounds(b)) for a, b in pairs]
+    near = [i for i, (gap, m) in enumerate(zip(bounds, meta, strict=True))
+            if gap <= m[2] + FAR_MM]
+    results = dict(zip(near, least_separations([pairs[i] for i in near]), strict=True)) \
+        if near else {}
+    out: list[ClearancePair] = []
+    margins: dict[str, float] = {r.name: float("inf") for r in design.rods}
+    for i, (a, b, limit, rod_a, rod_b) in enumerate(meta):
+        res = results.get(i)
+        if res is None:
+            pair = ClearancePair(a, b, bounds[i], limit, "", -1, (np.nan,) * 3,
+                                 (np.nan,) * 3, exact=False)  # type: ignore[arg-type]
+        else:
+            sweep_index = int(np.searchsorted(starts, res.pose_index, side="right") - 1)
+            pair = ClearancePair(a, b, float(res.distance_mm), limit, names[sweep_index],
+                                 int(res.pose_index - starts[sweep_index]),
+                                 tuple(float(v) for v in res.point_a),  # type: ignore[arg-type]
+                                 tuple(float(v) for v in res.point_b))  # type: ignore[arg-type]
+        out.append(pair)
+        for rod in (rod_a, rod_b):
+            if rod is not None:
+                margins[rod] = min(margins[rod], pair.margin_mm)
+    out.sort(key=lambda p: p.margin_mm)
+    return ClearanceReport(tuple(out), tuple(skipped), margins, int(starts[-1]))
+
+
+def _bounds(solid: Solid) -> tuple[Array, Array]:
+    """Axis-aligned box (low, high) holding the solid at every pose (conservative)."""
+    if isinstance(solid, Capsule):
+        pts = np.stack((solid.p0, solid.p1), axis=-2).reshape(-1, 3)
+        grow = float(np.max(solid.radius))
+    elif isinstance(solid, Cylinder):
+        pts = np.stack((solid.p0, solid.p1), axis=-2).reshape(-1, 3)
+        grow = float(np.max(solid.radius))
+    elif isinstance(solid, Plate):
+        pts = np.asarray(solid.vertices).reshape(-1, 3)
+        grow = float(np.max(solid.thickness)) / 2.0
+    elif isinstance(solid, Box):
+        signs = np.array([[i, j, k] for i in (-1, 1) for j in (-1, 1) for k in (-1, 1)])
+        assert solid.rotation is not None
+        corners = np.einsum("...ij,cj->...ci", solid.rotation,
+                            signs * solid.half_size[..., None, :])
+        pts = (solid.centre[..., None, :] + corners).reshape(-1, 3)
+        grow = 0.0
+    else:
+        assert isinstance(solid, Prism)
+        poly = np.concatenate(solid.pieces)
+        lo_d, hi_d = solid.depth_min, solid.depth_max
+        pts = np.concatenate([poly[:, :1] * solid.u + poly[:, 1:] * solid.v + d * solid.w
+                              for d in (lo_d, hi_d)])
+        grow = 0.0
+    return pts.min(axis=0) - grow, pts.max(axis=0) + grow
+
+
+def _box_gap(a: tuple[Array, Array], b: tuple[Array, Array]) -> float:
+    """Distance between two axis-aligned boxes: a lower bound of the solids' distance."""
+    gap = np.maximum(0.0, np.maximum(b[0] - a[1], a[0] - b[1]))
+    return float(np.linalg.norm(gap))
+
+
+def _anchors_inside(moving: list[_Moving], zones: dict[str, Solid]) -> dict[str, list[bool]]:
+    """For each zone (at the design pose), which moving solids have a joint inside it."""
+    points = np.concatenate([m.anchors for m in moving]) if moving else np.zeros((0, 3))
+    owner = np.concatenate([np.full(len(m.anchors), i) for i, m in enumerate(moving)]) \
+        if moving else np.zeros(0, dtype=int)
+    out: dict[str, list[bool]] = {}
+    for name, zone in zones.items():
+        flags = [False] * len(moving)
+        if len(points):
+            d = separation(Capsule(points, points, 0.0), zone).distance_mm
+            for i in np.unique(owner[np.asarray(d) <= 0.0]):
+                flags[int(i)] = True
+        out[name] = flags
+    return out

@@ -1,0 +1,78 @@
+"""``plumbrod export DESIGN.toml``: DXF files for CAD and for cutting the rocker plates."""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from pathlib import Path
+from typing import TYPE_CHECKING, Any
+
+from plumbrod.outputs.cautions import CAUTION
+
+if TYPE_CHECKING:  # pragma: no cover
+    from plumbrod.mechanics.analysis import Analysis
+
+__all__ = ["export_files", "register", "run"]
+
+
+def register(subparsers: Any) -> None:
+    parser = subparsers.add_parser(
+        "export",
+        help="write DXF files: the design as a 3D wireframe and each rocker plate's cut "
+             "profile",
+        description=(
+            "Solve the design, then write <name>-route.dxf (the design pose as a 3D "
+            "wireframe in mm: rods, rocker axes, wishbones, tyres, zones, labelled "
+            "hardpoints) and one <name>-plate-<rocker>.dxf per rocker with plate data "
+            "(the flat cut profile 1:1 in mm: one closed outer polyline with true arcs "
+            "and the holes as circles on cut layers; notes on other layers). Files are "
+            "written whole or not at all."
+        ),
+        epilog=CAUTION,
+    )
+    parser.add_argument("design", help="design file (TOML); see `plumbrod new`")
+    parser.add_argument("--output-dir", metavar="DIR", default="exports",
+                        help="folder for the files (default: exports)")
+    parser.add_argument("--dxf-version", choices=("R2010", "R2000"), default="R2010",
+                        help="DXF version (default R2010; R2000 for older cutting software)")
+    parser.add_argument("--png", action="store_true",
+                        help="also write a PNG preview of each DXF file (3D designs seen "
+                             "isometric, planar designs in their own view)")
+    parser.set_defaults(handler=run)
+
+
+def export_files(analysis: Analysis, folder: str | Path, *, dxf_version: str = "R2010",
+                 png: bool = False, stem: str | None = None) -> list[Path]:
+    """Write the DXF files of a solved design (and PNG previews when ``png``) into
+    ``folder``; every file is prepared before any is renamed into place.  Returns the
+    paths written.  ``plumbrod demo`` can call this with the bundled example."""
+    from plumbrod.outputs.atomic import write_many
+    from plumbrod.outputs.dxf_export import design_drawings, dxf_bytes
+
+    drawings = design_drawings(analysis, dxf_version=dxf_version, stem=stem)
+    out = Path(folder)
+    files: dict[Path, bytes] = {out / name: dxf_bytes(doc) for name, doc in drawings.items()}
+    if png:
+        from plumbrod.outputs.dxf_preview import preview_png, route_view
+
+        for name, doc in drawings.items():
+            view = route_view(analysis.design) if name.endswith("-route.dxf") else "top"
+            files[(out / name).with_suffix(".png")] = preview_png(doc, view=view)
+    return write_many(files)
+
+
+def run(args: argparse.Namespace) -> int:
+    from plumbrod.mechanics.analysis import analyse
+    from plumbrod.design.loading import load_design
+
+    analysis = analyse(load_design(args.design))
+    written = export_files(analysis, args.output_dir, dxf_version=args.dxf_version,
+                           png=args.png, stem=Path(args.design).stem)
+    for path in written:
+        sys.stdout.write(f"wrote {path}\n")
+    plates = sum(1 for p in written if "-plate-" in p.name and p.suffix == ".dxf")
+    sys.stdout.write(
+        f"units: mm; {plates} plate profile{'s' if plates != 1 else ''} (cut layers: "
+        "CUT_PROFILE, CUT_HOLES). Check fits, webs and strength with a qualified engineer "
+        "before cutting.\n")
+    return 0

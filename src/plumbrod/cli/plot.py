@@ -1,0 +1,41 @@
+"""``plumbrod plot DESIGN.toml``: PNG figures of the kinematics and the forces."""
+
+from __future__ import annotations
+
+import argparse
+from pathlib import Path
+from typing import Any
+
+from plumbrod.outputs.cautions import CAUTION
+
+__all__ = ["register", "run"]
+
+
+def register(subparsers: Any) -> None:
+    parser = subparsers.add_parser(
+        "plot",
+        help="draw route ratio, ride height, angles and rod forces as PNG figures",
+        description=(
+            "Solve a design and draw two PNG figures: <design>-kinematics.png (route "
+            "ratio, ride height against the bolted element, line of action, transmission "
+            "angles) and <design>-forces.png (rod forces per load case through the "
+            "travel, with each compression rod's critical load over the required "
+            "reserve)."
+        ),
+        epilog=CAUTION,
+    )
+    parser.add_argument("design", help="design file (TOML)")
+    parser.add_argument("--output-dir", metavar="DIR", default="exports",
+                        help="folder for the PNG files (default: exports)")
+    parser.set_defaults(handler=run)
+
+
+def run(args: argparse.Namespace) -> int:
+    from plumbrod.design.loading import load_design
+    from plumbrod.verdict.findings import review
+    from plumbrod.outputs.plots import plot_findings
+
+    findings = review(load_design(args.design))
+    for path in plot_findings(findings, args.output_dir, Path(args.design).stem):
+        print(f"wrote {path}")
+    return 0

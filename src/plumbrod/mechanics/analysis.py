@@ -1,0 +1,79 @@
+"""The whole analysis of one design: location, routes, sweeps and their figures.
+
+This is the one place that runs the pipeline in order::
+
+    design file -> Design -> Linkage -> mobility -> routes -> sweeps -> figures
+                                                         -> members, loads -> statics
+
+Later stages (structure, clearance) read the :class:`Analysis` this returns.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from plumbrod.errors import LocationError
+from plumbrod.kinematics.figures import SweepFigures, sweep_figures
+from plumbrod.kinematics.linkage import Linkage, build_linkage
+from plumbrod.mechanics.loads import AppliedLoads, applied_loads, design_load_cases
+from plumbrod.mechanics.members import Member, resolve_members
+from plumbrod.kinematics.mobility import Mobility, analyse_mobility
+from plumbrod.design.model import Design
+from plumbrod.kinematics.routes import RouteMap, find_routes
+from plumbrod.mechanics.statics import Statics, solve_statics
+from plumbrod.kinematics.sweeps import SweepResult, run_sweeps
+
+__all__ = ["Analysis", "analyse"]
+
+
+@dataclass(frozen=True)
+class Analysis:
+    """Everything the checks and reports need about one design."""
+
+    design: Design
+    link: Linkage
+    mobility: Mobility
+    routes: RouteMap
+    sweeps: dict[str, SweepResult]
+    figures: dict[str, SweepFigures]
+    members: dict[str, Member]
+    loads: AppliedLoads | None
+    """None when the design has no load case (no aero data or top speed)."""
+    statics: dict[str, Statics]
+
+
+def locate(design: Design) -> tuple[Linkage, Mobility, RouteMap]:
+    """Build the linkage and make sure every body is located and a route exists.
+
+    Raises LocationError naming the free motion, or saying that no route reaches a
+    corner.  Redundant members are allowed (see ``Mobility.redundant``).
+    """
+    link = build_linkage(design)
+    mobility = analyse_mobility(link)
+    if mobility.free_motions:
+        first = mobility.free_motions[0]
+        more = len(mobility.free_motions) - 1
+        tail = f" (and {more} more free motion{'s' if more > 1 else ''})" if more else ""
+        raise LocationError(first.split("'")[1], "free",
+                            f"{design.source}: not exactly located: {first}{tail}")
+    routes = find_routes(design)
+    for element in design.elements:
+        if not routes.for_element(element.name):
+            raise LocationError(element.name, "free",
+                                f"{design.source}: element '{element.name}' has no route to "
+                                "a corner: every rod from it ends on the chassis; join one "
+                                "of its pickups to a rocker, wishbone or upright")
+    return link, mobility, routes
+
+
+def analyse(design: Design) -> Analysis:
+    """Locate, solve every sweep, compute the kinematic figures and the statics."""
+    members = resolve_members(design)
+    link, mobility, routes = locate(design)
+    sweeps = run_sweeps(link, design.sweeps)
+    figures = {name: sweep_figures(link, routes, res) for name, res in sweeps.items()}
+    cases = design_load_cases(design)
+    loads = applied_loads(design, link, members, routes, cases) if cases else None
+    statics = {} if loads is None else {
+        name: solve_statics(link, routes, members, loads, res) for name, res in sweeps.items()}
+    return Analysis(design, link, mobility, routes, sweeps, figures, members, loads, statics)

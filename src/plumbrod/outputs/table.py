@@ -1,0 +1,118 @@
+"""One row per solved pose: positions, ratios, angles and forces, for CSV and JSON.
+
+Column names are ``<item>/<quantity>_<unit>`` (load-case columns start with the case:
+``<case>/<item>/<quantity>_<unit>``), so every column says its unit.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+
+import numpy as np
+from numpy.typing import NDArray
+
+from plumbrod.mechanics.analysis import Analysis
+
+__all__ = ["pose_table", "table_csv", "table_json"]
+
+Array = NDArray[np.float64]
+DRIVER_COLUMNS = ("travel_mm", "heave_mm", "roll_deg", "pitch_deg")
+
+
+def _columns_of_sweep(analysis: Analysis, name: str) -> dict[str, Array]:
+    link = analysis.link
+    res = analysis.sweeps[name]
+    fig = analysis.figures[name]
+    kin = res.solved.kin
+    n = res.spec.size
+    cols: dict[str, Array] = {}
+    for key in DRIVER_COLUMNS:
+        cols[key] = res.spec.values.get(key, np.full(n, np.nan if key == "travel_mm" else 0.0))
+    if not res.spec.is_travel:
+        cols["travel_mm"] = np.full(n, np.nan)
+    for c, corner in enumerate(link.corner_names):
+        i = link.wheel_centre[c]
+        cols[f"{corner}/wheel_travel_mm"] = kin.points[:, i, 2] - link.points[0, i, 2]
+    for route in analysis.routes.routes:
+        i = link.point(route.pickup)
+        for axis, label in enumerate("xyz"):
+            cols[f"{route.name}/{label}_mm"] = kin.points[:, i, axis]
+        if route.name in fig.route_ratio:
+            cols[f"{route.name}/route_ratio"] = fig.route_ratio[route.name]
+    for element, rh in fig.ride_height.items():
+        cols[f"{element}/ride_height_mm"] = rh.height_mm
+        cols[f"{element}/ride_height_bolted_mm"] = rh.bolted_height_mm
+    for rod, angle in fig.line_of_action_deg.items():
+        cols[f"{rod}/line_of_action_deg"] = angle
+    for j, (rod, body) in enumerate(fig.transmission_labels):
+        cols[f"{rod}@{body}/transmission_deg"] = fig.transmission_deg[:, j]
+    st = analysis.statics.get(name)
+    if st is not None:
+        design_rods = [r.name for r in analysis.design.rods]
+        for k, case in enumerate(st.cases):
+            for rod in design_rods:
+                cols[f"{case}/{rod}/force_N"] = st.rod_force_N[:, k, link.rod_names.index(rod)]
+            for route, force in st.upright_force_N.items():
+                f = force[:, k]
+                for axis, label in enumerate("xyz"):
+                    cols[f"{case}/{route}/upright_F{label}_N"] = f[:, axis]
+                size = np.linalg.norm(f, axis=-1)
+                cols[f"{case}/{route}/upright_angle_deg"] = np.degrees(np.arccos(
+                    np.clip(np.abs(f[:, 2]) / np.where(size > 0, size, 1.0), 0.0, 1.0)))
+                moment = st.upright_moment_Nm[route][:, k]
+                cols[f"{case}/{route}/upright_Mx_Nm"] = moment[:, 0]
+                cols[f"{case}/{route}/upright_My_Nm"] = moment[:, 1]
+            for e, element in enumerate(st.elements):
+                leak = st.leakage[:, k, e]
+                cols[f"{case}/{element}/leak_heave_N"] = leak[:, 0]
+                cols[f"{case}/{element}/leak_roll_Nm"] = leak[:, 1]
+                cols[f"{case}/{element}/leak_pitch_Nm"] = leak[:, 2]
+                cols[f"{case}/{element}/leak_heave_virtual_work_N"] = \
+                    st.leakage_virtual_work[:, k, e, 0]
+                load = st.vertical_load_N[:, k, e]
+                cols[f"{case}/{element}/leak_fraction"] = np.divide(
+                    leak[:, 0], load, out=np.zeros(n), where=np.abs(load) > 1e-9)
+    return cols
+
+
+def pose_table(analysis: Analysis, sweeps: list[str] | None = None
+               ) -> tuple[list[str], list[list[object]]]:
+    """Columns and rows for the chosen sweeps (all by default), one row per pose."""
+    names = sweeps or list(analysis.sweeps)
+    per_sweep = {name: _columns_of_sweep(analysis, name) for name in names}
+    columns: list[str] = ["sweep", "pose"]
+    for cols in per_sweep.values():
+        for key in cols:
+            if key not in columns:
+                columns.append(key)
+    rows: list[list[object]] = []
+    for name, cols in per_sweep.items():
+        n = analysis.sweeps[name].spec.size
+        for i in range(n):
+            row: list[object] = [name, i]
+            for key in columns[2:]:
+                value = cols.get(key)
+                row.append(None if value is None or np.isnan(value[i])
+                           else round(float(value[i]), 6))
+            rows.append(row)
+    return columns, rows
+
+
+def table_csv(columns: list[str], rows: list[list[object]]) -> str:
+    """The table as CSV text (empty cells where a column does not apply)."""
+    out = io.StringIO()
+    writer = csv.writer(out, lineterminator="\n")
+    writer.writerow(columns)
+    for row in rows:
+        writer.writerow(["" if v is None else v for v in row])
+    return out.getvalue()
+
+
+def table_json(analysis: Analysis, columns: list[str], rows: list[list[object]]) -> str:
+    """The table as JSON: design name and file, columns, rows (null where n/a)."""
+    doc = {"design": {"name": analysis.design.name, "file": analysis.design.source},
+           "load_cases": list(analysis.loads.cases) if analysis.loads else [],
+           "columns": columns, "rows": rows}
+    return json.dumps(doc, ensure_ascii=False) + "\n"

@@ -1,0 +1,40 @@
+"""Everything a report shows about a design, computed once: the analysis, the checks
+and the tables behind them (member reserves, masses, compliance)."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from plumbrod.mechanics.analysis import Analysis, analyse
+from plumbrod.verdict.checks import CheckResult, evaluate_checks
+from plumbrod.clearance.survey import ClearanceReport, clearance_report
+from plumbrod.mechanics.compliance import ComplianceReport, compliance_report
+from plumbrod.mechanics.mass import MassReport, mass_report
+from plumbrod.design.model import Design
+from plumbrod.mechanics.structure import RodReserve, rod_reserves
+
+__all__ = ["Findings", "review"]
+
+
+@dataclass(frozen=True)
+class Findings:
+    analysis: Analysis
+    checks: list[CheckResult]
+    reserves: dict[str, RodReserve]
+    mass: MassReport
+    compliance: ComplianceReport
+    clearance: ClearanceReport
+
+    def clearance_margin_mm(self, rod: str) -> float:
+        """How much a rod's radius may grow before a clearance limit is reached (mm)."""
+        return self.clearance.rod_margin_mm.get(rod, float("inf"))
+
+
+def review(design: Design) -> Findings:
+    """Analyse a design and evaluate every check."""
+    analysis = analyse(design)
+    reserves = rod_reserves(analysis)
+    compliance = compliance_report(analysis)
+    clearance = clearance_report(analysis)
+    checks = evaluate_checks(analysis, reserves, compliance, clearance)
+    return Findings(analysis, checks, reserves, mass_report(analysis), compliance, clearance)
