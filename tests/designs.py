@@ -14,9 +14,10 @@ import numpy as np
 from numpy.typing import NDArray
 
 from plumbrod.design.loading import parse_design
-from plumbrod.kinematics.drives import BodyDrive, TravelDrive
-from plumbrod.kinematics.linkage import Linkage, build_linkage
 from plumbrod.design.model import CHASSIS, Design
+from plumbrod.kinematics.build import build_linkage
+from plumbrod.kinematics.drives import BodyDrive, TravelDrive
+from plumbrod.kinematics.linkage import Linkage
 from plumbrod.kinematics.sweeps import SweepResult, SweepSpec, run_sweep
 
 __all__ = [

@@ -16,14 +16,14 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from plumbrod.mechanics.analysis import Analysis
+from plumbrod.design.model import CHASSIS, Design, LoadCase
 from plumbrod.kinematics.linkage import HINGE, SLIDE
+from plumbrod.kinematics.sweeps import SweepResult
+from plumbrod.mechanics.analysis import Analysis
 from plumbrod.mechanics.loads import design_load_cases
 from plumbrod.mechanics.members import material_table
-from plumbrod.design.model import CHASSIS, Design, LoadCase
 from plumbrod.mechanics.plates import rocker_mass_kg
 from plumbrod.mechanics.statics import Statics
-from plumbrod.kinematics.sweeps import SweepResult
 
 __all__ = [
     "G0_M_S2",

@@ -12,9 +12,9 @@ from pathlib import Path
 import pytest
 
 from designs import SideChain, side_chain_text
-from plumbrod.mechanics.analysis import analyse
 from plumbrod.design.loading import parse_design
 from plumbrod.errors import AssemblyError
+from plumbrod.mechanics.analysis import analyse
 
 SRC = Path(__file__).resolve().parents[1] / "src"
 

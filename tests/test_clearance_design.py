@@ -16,12 +16,12 @@ import numpy as np
 import pytest
 
 from designs import EXAMPLE, FrontChain, front_chain_text, replace_once
-from plumbrod.mechanics.analysis import analyse
+from plumbrod.clearance.distance import separation
 from plumbrod.clearance.survey import ClearanceReport, clearance_report, zone_solids
 from plumbrod.design.loading import parse_design
-from plumbrod.clearance.distance import separation
-from plumbrod.mechanics.plates import rocker_outlines
 from plumbrod.geometry.shapes import Box, Capsule, Plate
+from plumbrod.mechanics.analysis import analyse
+from plumbrod.mechanics.plates import rocker_outlines
 
 
 def _all_points(analysis):  # (poses of every sweep, np, 3), rotations, translations

@@ -11,9 +11,9 @@ from pathlib import Path
 import pytest
 
 import plumbrod
-from plumbrod.mechanics.columns import END_CONDITIONS
 from plumbrod.cli.column import END_NAMES
 from plumbrod.design.materials import load_materials
+from plumbrod.mechanics.columns import END_CONDITIONS
 
 # source: 1 in = 25.4 mm and 1 lbf = 0.45359237 kg × 9.80665 m/s², both exact by
 # definition (NIST SP 811, 2008 ed., Appendix B), pub.

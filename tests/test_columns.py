@@ -10,6 +10,7 @@ from hypothesis import given
 from hypothesis import strategies as st
 from scipy.optimize import brentq
 
+from plumbrod.design.sections import Section, tube_area_mm2, tube_second_moment_mm4
 from plumbrod.mechanics.columns import (
     END_CONDITIONS,
     ColumnResult,
@@ -27,7 +28,6 @@ from plumbrod.mechanics.columns import (
     tension_reserve_factor,
     transition_slenderness,
 )
-from plumbrod.design.sections import Section, tube_area_mm2, tube_second_moment_mm4
 
 # source: 1 in = 25.4 mm and 1 lbf = 0.45359237 kg × 9.80665 m/s², both exact by
 # definition (NIST SP 811, 2008 ed., Appendix B), pub.

@@ -20,9 +20,9 @@ from __future__ import annotations
 
 import pytest
 
+from plumbrod.design.loading import parse_design
 from plumbrod.mechanics.analysis import analyse
 from plumbrod.mechanics.compliance import ComplianceReport, compliance_report
-from plumbrod.design.loading import parse_design
 from structure_designs import FEATHER, STEEL_4130N, Hang, RodSpec, hang_text
 
 # source: standard acceleration of gravity 9.80665 m/s² (3rd CGPM, 1901), pub.

@@ -8,8 +8,8 @@ import pytest
 
 from designs import EXAMPLE
 from plumbrod.design.loading import parse_design
+from plumbrod.kinematics.build import build_linkage
 from plumbrod.kinematics.drives import BodyDrive, TravelDrive
-from plumbrod.kinematics.linkage import build_linkage
 from plumbrod.kinematics.solver import solve_poses
 
 

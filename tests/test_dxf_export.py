@@ -26,8 +26,10 @@ from scipy.spatial.transform import Rotation
 
 import plumbrod
 from designs import EXAMPLE, ROOT, replace_once
-from plumbrod.mechanics.analysis import Analysis, analyse
 from plumbrod.design.loading import load_design
+from plumbrod.errors import UsageError
+from plumbrod.mechanics.analysis import Analysis, analyse
+from plumbrod.mechanics.plates import rocker_outlines
 from plumbrod.outputs.dxf_export import (
     CUT_LAYERS,
     PLATE_LAYERS,
@@ -38,8 +40,6 @@ from plumbrod.outputs.dxf_export import (
     route_drawing,
 )
 from plumbrod.outputs.dxf_preview import preview_png, view_matrix
-from plumbrod.errors import UsageError
-from plumbrod.mechanics.plates import rocker_outlines
 
 UNDERTRAY = ROOT / "examples" / "planar_undertray.toml"
 VERSIONS = {"R2010": "AC1024", "R2000": "AC1015"}

@@ -31,12 +31,12 @@ from designs import (
     side_chain_text,
     travel_sweep,
 )
-from plumbrod.mechanics.analysis import analyse
 from plumbrod.kinematics.drives import TravelDrive
 from plumbrod.kinematics.figures import ride_heights, route_ratios
 from plumbrod.kinematics.linkage import Linkage
 from plumbrod.kinematics.routes import find_routes
 from plumbrod.kinematics.solver import solve_poses
+from plumbrod.mechanics.analysis import analyse
 
 LENGTH_TOL_MM = 1e-9
 
@@ -263,7 +263,7 @@ def test_route_ratio_matches_scipy_derivative_on_the_example() -> None:
     # source: scipy.differentiate.derivative (adaptive central finite differences with
     # Richardson extrapolation), on positions solved one wheel at a time.
     from plumbrod.design.loading import load_design
-    from plumbrod.kinematics.linkage import build_linkage
+    from plumbrod.kinematics.build import build_linkage
 
     design = load_design(EXAMPLE)
     link = build_linkage(design)

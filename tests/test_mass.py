@@ -26,8 +26,8 @@ from __future__ import annotations
 
 import pytest
 
-from plumbrod.mechanics.analysis import analyse
 from plumbrod.design.loading import parse_design
+from plumbrod.mechanics.analysis import analyse
 from plumbrod.mechanics.mass import MassReport, mass_report
 from structure_designs import (
     FEATHER,

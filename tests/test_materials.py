@@ -7,7 +7,6 @@ import math
 
 import pytest
 
-from plumbrod.errors import PlumbrodError
 from plumbrod.design.materials import (
     BASES,
     Material,
@@ -16,6 +15,7 @@ from plumbrod.design.materials import (
     lookup_material,
     material_from_values,
 )
+from plumbrod.errors import PlumbrodError
 
 # source: 1 in = 25.4 mm and 1 lbf = 0.45359237 kg × 9.80665 m/s², both exact by
 # definition (NIST SP 811, 2008 ed., Appendix B), pub.

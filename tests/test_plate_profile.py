@@ -12,8 +12,8 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from plumbrod.geometry.plate_outline import plate_outline
-from plumbrod.outputs.plate_profile import circle_hull, plate_profile
 from plumbrod.geometry.shapes import GeometryError
+from plumbrod.outputs.plate_profile import circle_hull, plate_profile
 
 
 def _reference_hull(centres: np.ndarray, radii: np.ndarray, quad_segs: int) -> shapely.Polygon:

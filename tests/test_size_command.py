@@ -22,8 +22,8 @@ import pytest
 
 import plumbrod
 from plumbrod.design.loading import parse_design
-from plumbrod.verdict.findings import Findings, review
 from plumbrod.design.model import Design
+from plumbrod.verdict.findings import Findings, review
 from structure_designs import (
     FEATHER,
     STEEL_4130N,

@@ -28,11 +28,11 @@ from designs import (
     three_hangers_text,
     travel_sweep,
 )
-from plumbrod.mechanics.analysis import Analysis, analyse
+from plumbrod.design.model import LoadCase
 from plumbrod.errors import PlumbrodError
 from plumbrod.kinematics.linkage import FREE, HINGE, SLIDE
+from plumbrod.mechanics.analysis import Analysis, analyse
 from plumbrod.mechanics.loads import SEA_LEVEL_DENSITY_KG_M3, dynamic_pressure_Pa
-from plumbrod.design.model import LoadCase
 from statics_reference import (
     G0_M_S2,
     body_sums,

@@ -8,9 +8,9 @@ import math
 import pytest
 
 from plumbrod.design.materials import load_materials
-from plumbrod.mechanics.members import Member
 from plumbrod.design.model import Rod
 from plumbrod.design.sections import Section
+from plumbrod.mechanics.members import Member
 from plumbrod.revise.sizing import thinnest_wall_mm
 
 

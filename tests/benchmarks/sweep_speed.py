@@ -32,13 +32,15 @@ from pathlib import Path
 import numpy as np
 from scipy.optimize import fsolve
 
-from plumbrod.mechanics.analysis import analyse
 from plumbrod.clearance.survey import clearance_report
 from plumbrod.design.loading import parse_design
-from plumbrod.kinematics.drives import BodyDrive, TravelDrive
-from plumbrod.kinematics.linkage import Linkage, Pose, build_linkage, rotation_vector_matrix
-from plumbrod.kinematics.solver import RESIDUAL_TOL_MM, evaluate, solve_poses
 from plumbrod.design.templates import BUNDLED_EXAMPLE, read_template
+from plumbrod.kinematics.build import build_linkage
+from plumbrod.kinematics.drives import BodyDrive, TravelDrive
+from plumbrod.kinematics.frames import Pose, rotation_vector_matrix
+from plumbrod.kinematics.linkage import Linkage
+from plumbrod.kinematics.solver import RESIDUAL_TOL_MM, evaluate, solve_poses
+from plumbrod.mechanics.analysis import analyse
 
 
 def timed(fn, repeats: int) -> tuple[float, object]:

@@ -21,11 +21,11 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from plumbrod.mechanics.analysis import Analysis
 from plumbrod.clearance.distance import least_separations, separation
-from plumbrod.kinematics.linkage import Kinematics
-from plumbrod.mechanics.plates import rocker_outlines
 from plumbrod.geometry.shapes import Box, Capsule, Cylinder, Plate, Prism, Solid
+from plumbrod.kinematics.linkage import Kinematics
+from plumbrod.mechanics.analysis import Analysis
+from plumbrod.mechanics.plates import rocker_outlines
 
 __all__ = ["ClearancePair", "ClearanceReport", "clearance_report", "zone_solids"]
 

@@ -33,10 +33,10 @@ def register(subparsers: Any) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
-    from plumbrod.outputs.atomic import write_atomic
     from plumbrod.design.loading import load_design
-    from plumbrod.verdict.findings import review
+    from plumbrod.outputs.atomic import write_atomic
     from plumbrod.outputs.report import as_json, as_text, verdict
+    from plumbrod.verdict.findings import review
 
     findings = review(load_design(args.design))
     text = as_json(findings) if args.json else as_text(findings)

@@ -165,6 +165,8 @@ def run(args: argparse.Namespace) -> int:
     if args.list_materials:
         return _list_materials(args.json)
 
+    from plumbrod.design.materials import UnknownMaterialError, lookup_material
+    from plumbrod.design.sections import Section
     from plumbrod.mechanics.columns import (
         analyse_column,
         effective_length_factor,
@@ -173,8 +175,6 @@ def run(args: argparse.Namespace) -> int:
         rod_end_reserve_factor,
         tension_capacity_N,
     )
-    from plumbrod.design.materials import UnknownMaterialError, lookup_material
-    from plumbrod.design.sections import Section
 
     od = _number("--od", args.od)
     if od is None:

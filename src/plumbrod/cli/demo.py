@@ -30,15 +30,15 @@ def register(subparsers: Any) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
-    from plumbrod.mechanics.analysis import Analysis
-    from plumbrod.outputs.atomic import write_many
     from plumbrod.cli.export import export_files
     from plumbrod.design.loading import parse_design
-    from plumbrod.verdict.findings import review
+    from plumbrod.design.templates import BUNDLED_EXAMPLE, read_template
+    from plumbrod.mechanics.analysis import Analysis
+    from plumbrod.outputs.atomic import write_many
     from plumbrod.outputs.plots import plot_findings
     from plumbrod.outputs.report import as_json, as_text, verdict
     from plumbrod.outputs.table import pose_table, table_csv
-    from plumbrod.design.templates import BUNDLED_EXAMPLE, read_template
+    from plumbrod.verdict.findings import review
 
     out = Path(args.output_dir)
     stem = Path(BUNDLED_EXAMPLE).stem

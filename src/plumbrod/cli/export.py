@@ -62,8 +62,8 @@ def export_files(analysis: Analysis, folder: str | Path, *, dxf_version: str = "
 
 
 def run(args: argparse.Namespace) -> int:
-    from plumbrod.mechanics.analysis import analyse
     from plumbrod.design.loading import load_design
+    from plumbrod.mechanics.analysis import analyse
 
     analysis = analyse(load_design(args.design))
     written = export_files(analysis, args.output_dir, dxf_version=args.dxf_version,

@@ -13,9 +13,9 @@ import sys
 from collections.abc import Sequence
 
 from plumbrod import __version__
-from plumbrod.outputs.cautions import CAUTION
 from plumbrod.cli import COMMAND_MODULES
 from plumbrod.errors import AssemblyError, PlumbrodError
+from plumbrod.outputs.cautions import CAUTION
 
 __all__ = ["EXIT_BAD_INPUT", "EXIT_FAIL", "EXIT_OK", "build_parser", "main"]
 

@@ -25,9 +25,9 @@ def register(subparsers: Any) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
-    from plumbrod.outputs.atomic import write_atomic
-    from plumbrod.errors import UsageError
     from plumbrod.design.templates import STARTER, read_template
+    from plumbrod.errors import UsageError
+    from plumbrod.outputs.atomic import write_atomic
 
     target = Path(args.file)
     if target.is_dir():

@@ -32,8 +32,8 @@ def register(subparsers: Any) -> None:
 
 def run(args: argparse.Namespace) -> int:
     from plumbrod.design.loading import load_design
-    from plumbrod.verdict.findings import review
     from plumbrod.outputs.plots import plot_findings
+    from plumbrod.verdict.findings import review
 
     findings = review(load_design(args.design))
     for path in plot_findings(findings, args.output_dir, Path(args.design).stem):

@@ -54,12 +54,12 @@ def _free_name(path: Path) -> Path:
 def run(args: argparse.Namespace) -> int:
     import tomllib
 
-    from plumbrod.outputs.atomic import write_atomic
     from plumbrod.design.loading import load_design, parse_design
     from plumbrod.errors import UsageError
-    from plumbrod.verdict.findings import review
     from plumbrod.mechanics.members import material_table
+    from plumbrod.outputs.atomic import write_atomic
     from plumbrod.revise.sizing import apply_sizes, choose_sections, thinnest_wall_mm
+    from plumbrod.verdict.findings import review
 
     source = Path(args.design)
     design = load_design(source)

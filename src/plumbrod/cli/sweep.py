@@ -37,10 +37,10 @@ def register(subparsers: Any) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
-    from plumbrod.mechanics.analysis import analyse
-    from plumbrod.outputs.atomic import write_many
     from plumbrod.design.loading import load_design
     from plumbrod.errors import UsageError
+    from plumbrod.mechanics.analysis import analyse
+    from plumbrod.outputs.atomic import write_many
     from plumbrod.outputs.table import pose_table, table_csv, table_json
 
     design = load_design(args.design)

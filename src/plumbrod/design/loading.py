@@ -17,7 +17,6 @@ from collections.abc import Iterable
 from pathlib import Path
 from typing import Any, NoReturn
 
-from plumbrod.errors import DesignFileError
 from plumbrod.design.model import (
     CHASSIS,
     PLANE_NORMAL_AXIS,
@@ -38,6 +37,7 @@ from plumbrod.design.model import (
     Wishbones,
     Zone,
 )
+from plumbrod.errors import DesignFileError
 
 __all__ = ["ELEMENT_KINDS", "load_design", "parse_design"]
 

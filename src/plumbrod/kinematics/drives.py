@@ -21,7 +21,8 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from plumbrod.kinematics.linkage import Kinematics, Linkage, cross
+from plumbrod.kinematics.frames import cross
+from plumbrod.kinematics.linkage import Kinematics, Linkage
 
 __all__ = ["BodyDrive", "Drive", "TravelDrive", "chassis_motion"]
 

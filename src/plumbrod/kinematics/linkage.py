@@ -20,7 +20,6 @@ Constraint rows (all in mm): rod lengths ``(|d|^2 - L^2) / 2L``, ball joints (th
 components, the in-plane ones in a planar design), and one driver row per corner (see
 :mod:`plumbrod.kinematics.drives`).
 """
-
 from __future__ import annotations
 
 from dataclasses import dataclass, field, replace
@@ -28,101 +27,20 @@ from dataclasses import dataclass, field, replace
 import numpy as np
 from numpy.typing import NDArray
 
-from plumbrod.design.model import CHASSIS, Design
+from plumbrod.design.model import Design
+from plumbrod.kinematics.frames import (
+    Array,
+    Pose,
+    cross,
+    cross_into,
+    rotation_vector,
+    rotation_vector_matrix,
+    skew,
+)
 
-__all__ = [
-    "FIXED",
-    "FREE",
-    "HINGE",
-    "SLIDE",
-    "Kinematics",
-    "Linkage",
-    "Pose",
-    "build_linkage",
-    "cross",
-    "rotation_about",
-]
+__all__ = ["FIXED", "FREE", "HINGE", "SLIDE", "Kinematics", "Linkage"]
 
 FIXED, HINGE, SLIDE, FREE = 0, 1, 2, 3
-Array = NDArray[np.float64]
-
-
-def cross(a: Array, b: Array) -> Array:
-    """Cross product over the last axis, broadcasting (faster than np.cross here)."""
-    ax, ay, az = a[..., 0], a[..., 1], a[..., 2]
-    bx, by, bz = b[..., 0], b[..., 1], b[..., 2]
-    return np.stack((ay * bz - az * by, az * bx - ax * bz, ax * by - ay * bx), axis=-1)
-
-
-def _cross_into(a: Array, b: Array, out: Array) -> None:
-    """``out[...] = a x b`` over the last axis, without temporaries of the stacked result."""
-    np.multiply(a[..., 1], b[..., 2], out=out[..., 0])
-    out[..., 0] -= a[..., 2] * b[..., 1]
-    np.multiply(a[..., 2], b[..., 0], out=out[..., 1])
-    out[..., 1] -= a[..., 0] * b[..., 2]
-    np.multiply(a[..., 0], b[..., 1], out=out[..., 2])
-    out[..., 2] -= a[..., 1] * b[..., 0]
-
-
-def rotation_about(axis: Array, angle: Array) -> Array:
-    """Rotation matrices (..., 3, 3) about unit ``axis`` (..., 3) by ``angle`` (...) rad."""
-    axis = np.asarray(axis, dtype=float)
-    angle = np.asarray(angle, dtype=float)
-    s = np.sin(angle)[..., None, None]
-    c = np.cos(angle)[..., None, None]
-    x, y, z = axis[..., 0], axis[..., 1], axis[..., 2]
-    zero = np.zeros_like(x)
-    k = np.stack((np.stack((zero, -z, y), -1), np.stack((z, zero, -x), -1),
-                  np.stack((-y, x, zero), -1)), -2)
-    outer = axis[..., :, None] * axis[..., None, :]
-    eye = np.eye(3)
-    return c * eye + s * k + (1.0 - c) * outer
-
-
-def rotation_vector_matrix(rotvec: Array) -> Array:
-    """Rotation matrices (..., 3, 3) of rotation vectors (..., 3) (rad)."""
-    angle = np.linalg.norm(rotvec, axis=-1)
-    safe = np.where(angle > 1e-300, angle, 1.0)
-    axis = rotvec / safe[..., None]
-    axis = np.where((angle > 1e-300)[..., None], axis, np.array([1.0, 0.0, 0.0]))
-    return rotation_about(axis, angle)
-
-
-@dataclass(frozen=True)
-class Pose:
-    """A batch of linkage poses.
-
-    ``joint`` (B, nj): hinge angles (rad) and slide displacements (mm);
-    ``rotation`` (B, nf, 3, 3) and ``centre`` (B, nf, 3): free bodies' rotations and
-    the current positions of their reference points (mm).
-    """
-
-    joint: Array
-    rotation: Array
-    centre: Array
-
-    @property
-    def size(self) -> int:
-        """Number of poses in the batch."""
-        return int(self.joint.shape[0])
-
-    def take(self, index: NDArray[np.intp] | slice | int) -> Pose:
-        """A sub-batch (index along the pose axis)."""
-        if isinstance(index, int):
-            index = slice(index, index + 1)
-        return Pose(self.joint[index], self.rotation[index], self.centre[index])
-
-    def repeat(self, count: int) -> Pose:
-        """The (single) pose repeated ``count`` times."""
-        return Pose(np.repeat(self.joint, count, axis=0), np.repeat(self.rotation, count, axis=0),
-                    np.repeat(self.centre, count, axis=0))
-
-
-def concatenate_poses(poses: list[Pose]) -> Pose:
-    """Join batches along the pose axis."""
-    return Pose(np.concatenate([p.joint for p in poses]),
-                np.concatenate([p.rotation for p in poses]),
-                np.concatenate([p.centre for p in poses]))
 
 
 @dataclass(frozen=True)
@@ -306,7 +224,7 @@ class Linkage:
         if self.n_free == 0:
             return d_joint
         rel = pose.rotation @ np.swapaxes(base.rotation, -1, -2)
-        rotvec = _rotation_vector(rel)
+        rotvec = rotation_vector(rel)
         inc = np.concatenate((pose.centre - base.centre, rotvec), axis=-1)
         coords = inc @ self.free_basis  # basis columns are orthonormal selections
         return np.concatenate((d_joint, coords.reshape(pose.size, -1)), axis=1)
@@ -333,7 +251,7 @@ class Linkage:
                 if mount == HINGE:
                     a = origin[:, bodies]
                     entry["hinge_a"] = a
-                    entry["hinge_k"] = _skew(u)
+                    entry["hinge_k"] = skew(u)
                     entry["hinge_uu"] = u[..., :, None] * u[..., None, :]
                     entry["hinge_uxa"] = cross(u, a)
                     entry["hinge_uua"] = np.sum(u * a, axis=-1, keepdims=True) * u
@@ -486,223 +404,11 @@ class Linkage:
         wrench = np.empty((n, m, 2, 6))
         wrench[:, :, 0, 0:3] = grad
         wrench[:, :, 1, 0:3] = -grad
-        _cross_into(pts[:, ends[:, 0]], grad, wrench[:, :, 0, 3:6])
-        _cross_into(grad, pts[:, ends[:, 1]], wrench[:, :, 1, 3:6])
+        cross_into(pts[:, ends[:, 0]], grad, wrench[:, :, 0, 3:6])
+        cross_into(grad, pts[:, ends[:, 1]], wrench[:, :, 1, 3:6])
         return res, kin.jacobian_rows(self, bodies, wrench)
 
     def characteristic_length(self) -> float:
         """A length (mm) that scales rotations against translations: the points' spread."""
         pts = self.points[0]
         return float(max(np.sqrt(((pts - pts.mean(0)) ** 2).sum(1).mean()), 1.0))
-
-
-def _skew(v: Array) -> Array:
-    """(..., 3, 3) matrices with ``skew(v) @ x = v x x``."""
-    x, y, z = v[..., 0], v[..., 1], v[..., 2]
-    zero = np.zeros_like(x)
-    return np.stack((np.stack((zero, -z, y), -1), np.stack((z, zero, -x), -1),
-                     np.stack((-y, x, zero), -1)), -2)
-
-
-def _rotation_vector(r: Array) -> Array:
-    """Rotation vectors (..., 3) of rotation matrices (angles below pi)."""
-    cos = np.clip((np.trace(r, axis1=-2, axis2=-1) - 1.0) / 2.0, -1.0, 1.0)
-    angle = np.arccos(cos)
-    vec = np.stack((r[..., 2, 1] - r[..., 1, 2], r[..., 0, 2] - r[..., 2, 0],
-                    r[..., 1, 0] - r[..., 0, 1]), axis=-1)
-    sin = np.sin(angle)
-    factor = np.where(sin > 1e-12, angle / (2.0 * np.where(sin > 1e-12, sin, 1.0)), 0.5)
-    return vec * factor[..., None]
-
-
-# ---------------------------------------------------------------------------------
-# Building from a design
-# ---------------------------------------------------------------------------------
-
-
-def build_linkage(design: Design) -> Linkage:
-    """Arrange a validated design as a :class:`Linkage`."""
-    names: list[str] = [CHASSIS]
-    kinds: list[str] = ["chassis"]
-    mount: list[int] = [FIXED]
-    parent: list[int] = [0]
-    axis_pts: list[tuple[str, str]] = [("", "")]
-    reference: list[str] = [""]
-    point_names: list[str] = []
-    point_pos: list[tuple[float, float, float]] = []
-    point_owner: list[str] = []
-    ball_names: list[str] = []
-    ball_pairs: list[tuple[str, str]] = []
-    rod_names: list[str] = []
-    rod_pairs: list[tuple[str, str]] = []
-
-    def add_point(body: str, name: str, pos: tuple[float, float, float]) -> str:
-        full = f"{body}.{name}"
-        point_names.append(full)
-        point_pos.append(pos)
-        point_owner.append(body)
-        return full
-
-    def add_body(name: str, kind: str, how: int, par: str, axis: tuple[str, str],
-                 ref: str) -> None:
-        names.append(name)
-        kinds.append(kind)
-        mount.append(how)
-        parent.append(names.index(par))
-        axis_pts.append(axis)
-        reference.append(ref)
-
-    for corner in design.corners:
-        up = corner.upright
-        wc = add_point(up, "wheel_centre", corner.wheel_centre_mm)
-        if corner.suspension == "slider":
-            x, y, z = corner.wheel_centre_mm
-            top = add_point(CHASSIS, f"{corner.name}.slide_top", (x, y, z + 1.0))
-            base = add_point(CHASSIS, f"{corner.name}.slide_base", (x, y, z))
-            add_body(up, "upright", SLIDE, CHASSIS, (base, top), "")
-            continue
-        w = corner.wishbones
-        assert w is not None
-        for side in ("upper", "lower"):
-            body = f"{corner.name}.{side}"
-            front = add_point(CHASSIS, f"{corner.name}.{side}_front",
-                              getattr(w, f"{side}_front_mm"))
-            rear = add_point(CHASSIS, f"{corner.name}.{side}_rear",
-                             getattr(w, f"{side}_rear_mm"))
-            add_body(body, "wishbone", HINGE, CHASSIS, (rear, front), "")
-        add_body(up, "upright", FREE, CHASSIS, ("", ""), wc)
-        for side in ("upper", "lower"):
-            outer = getattr(w, f"{side}_outer_mm")
-            on_arm = add_point(f"{corner.name}.{side}", "outer_ball", outer)
-            on_upright = add_point(up, f"{side}_ball", outer)
-            ball_names.append(f"{corner.name} {side} ball joint")
-            ball_pairs.append((on_arm, on_upright))
-        if w.tie_rod_inner_mm is not None and w.tie_rod_outer_mm is not None:
-            inner = add_point(CHASSIS, f"{corner.name}.tie_rod_inner", w.tie_rod_inner_mm)
-            outer = add_point(up, "tie_rod_outer", w.tie_rod_outer_mm)
-            rod_names.append(f"{corner.name}.tie_rod")
-            rod_pairs.append((inner, outer))
-
-    for rocker in design.rockers:
-        a = add_point(rocker.name, "axis_a", rocker.axis_a_mm)
-        b = add_point(rocker.name, "axis_b", rocker.axis_b_mm)
-        # the axis lies in the parent; the axis points are stored on the rocker, which
-        # is fine because they do not move relative to the parent
-        add_body(rocker.name, "rocker", HINGE, rocker.parent, (a, b), "")
-
-    for element in design.elements:
-        ref = add_point(element.name, "centre_of_pressure", element.centre_of_pressure_mm)
-        add_point(element.name, "cg", element.cg_mm)
-        add_body(element.name, "element", FREE, CHASSIS, ("", ""), ref)
-
-    for key, pickup in design.pickups.items():
-        point_names.append(key)
-        point_pos.append(pickup.position_mm)
-        point_owner.append(pickup.body)
-
-    for rod in design.rods:
-        rod_names.append(rod.name)
-        rod_pairs.append((rod.end_a, rod.end_b))
-
-    index = {n: i for i, n in enumerate(point_names)}
-    nb = len(names)
-    body_index = {n: i for i, n in enumerate(names)}
-    point_body = np.array([body_index[o] for o in point_owner], dtype=np.intp)
-    mount_arr = np.array(mount, dtype=np.intp)
-
-    # joint and free-body numbering
-    joint_index = np.full(nb, -1, dtype=np.intp)
-    free_index = np.full(nb, -1, dtype=np.intp)
-    n_joint = n_free = 0
-    for b in range(nb):
-        if mount_arr[b] in (HINGE, SLIDE):
-            joint_index[b] = n_joint
-            n_joint += 1
-        elif mount_arr[b] == FREE:
-            free_index[b] = n_free
-            n_free += 1
-
-    basis = _free_basis(design.plane)
-    k = basis.shape[1]
-    nq = n_joint + n_free * k
-    parent_arr = np.array(parent, dtype=np.intp)
-    order = _topological_order(parent_arr, mount_arr)
-    ancestors = np.zeros((nb, nq), dtype=bool)
-    for b in order[1:]:
-        if mount_arr[b] == FREE:
-            f = free_index[b]
-            ancestors[b, n_joint + f * k: n_joint + (f + 1) * k] = True
-            continue
-        ancestors[b] = ancestors[parent_arr[b]]
-        ancestors[b, joint_index[b]] = True
-
-    axis_idx = np.array([[index.get(a, 0), index.get(b, 0)] for a, b in axis_pts],
-                        dtype=np.intp)
-    ref_idx = np.array([index.get(r, 0) for r in reference], dtype=np.intp)
-
-    components: tuple[int, ...] = (0, 1, 2)
-    if design.plane == "front":
-        components = (1, 2)
-    elif design.plane == "side":
-        components = (0, 2)
-
-    spin = np.array([[0.0, 1.0, 0.0] for _ in design.corners]).reshape(-1, 3)
-    return Linkage(
-        design=design,
-        body_names=tuple(names),
-        body_kind=tuple(kinds),
-        mount=mount_arr,
-        parent=parent_arr,
-        axis_points=axis_idx,
-        reference=ref_idx,
-        joint_index=joint_index,
-        free_index=free_index,
-        order=order,
-        ancestors=ancestors,
-        point_names=tuple(point_names),
-        point_body=point_body,
-        points=np.array(point_pos, dtype=float)[None],
-        rod_names=tuple(rod_names),
-        rod_ends=np.array([[index[a], index[b]] for a, b in rod_pairs],
-                          dtype=np.intp).reshape(-1, 2),
-        ball_names=tuple(ball_names),
-        ball_ends=np.array([[index[a], index[b]] for a, b in ball_pairs],
-                           dtype=np.intp).reshape(-1, 2),
-        ball_components=components,
-        corner_names=tuple(c.name for c in design.corners),
-        wheel_centre=np.array([index[f"{c.upright}.wheel_centre"] for c in design.corners],
-                              dtype=np.intp),
-        corner_upright=np.array([body_index[c.upright] for c in design.corners],
-                                dtype=np.intp),
-        tyre_radius_mm=np.array([c.tyre_radius_mm for c in design.corners], dtype=float),
-        spin_axis=spin,
-        free_basis=basis,
-        n_joint=n_joint,
-        n_free=n_free,
-        plane=design.plane,
-    )
-
-
-def _free_basis(plane: str | None) -> Array:
-    """Columns selecting a free body's increments [dc, dtheta]: all six, or in-plane."""
-    if plane is None:
-        return np.eye(6)
-    keep = (1, 2, 3) if plane == "front" else (0, 2, 4)
-    return np.eye(6)[:, keep]
-
-
-def _topological_order(parent: NDArray[np.intp], mount: NDArray[np.intp]) -> tuple[int, ...]:
-    order: list[int] = [0]
-    placed = {0}
-    pending = list(range(1, len(parent)))
-    while pending:
-        progressed = False
-        for b in list(pending):
-            if mount[b] == FREE or parent[b] in placed:
-                order.append(b)
-                placed.add(b)
-                pending.remove(b)
-                progressed = True
-        if not progressed:  # a cycle cannot come from a validated design
-            raise ValueError("bodies' parents form a cycle")
-    return tuple(order)

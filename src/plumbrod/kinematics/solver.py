@@ -22,9 +22,10 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from plumbrod.kinematics.drives import Drive
 from plumbrod.errors import AssemblyError
-from plumbrod.kinematics.linkage import Kinematics, Linkage, Pose, concatenate_poses
+from plumbrod.kinematics.drives import Drive
+from plumbrod.kinematics.frames import Pose, concatenate_poses
+from plumbrod.kinematics.linkage import Kinematics, Linkage
 
 __all__ = [
     "RESIDUAL_TOL_MM",

@@ -13,9 +13,9 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
+from plumbrod.design.model import Sweeps
 from plumbrod.kinematics.drives import BodyDrive, Drive, TravelDrive
 from plumbrod.kinematics.linkage import Linkage
-from plumbrod.design.model import Sweeps
 from plumbrod.kinematics.solver import Solved, solve_poses, tangent
 
 __all__ = ["SWEEP_ORDER", "SweepResult", "SweepSpec", "run_sweep", "run_sweeps", "sweep_specs"]

@@ -14,7 +14,8 @@ from __future__ import annotations
 import numpy as np
 from numpy.typing import NDArray
 
-from plumbrod.kinematics.linkage import HINGE, Kinematics, Linkage, cross
+from plumbrod.kinematics.frames import cross
+from plumbrod.kinematics.linkage import HINGE, Kinematics, Linkage
 
 __all__ = ["hinged_rod_ends", "joint_labels", "transmission_angles"]
 

@@ -12,16 +12,17 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from plumbrod.design.model import Design
 from plumbrod.errors import LocationError
+from plumbrod.kinematics.build import build_linkage
 from plumbrod.kinematics.figures import SweepFigures, sweep_figures
-from plumbrod.kinematics.linkage import Linkage, build_linkage
+from plumbrod.kinematics.linkage import Linkage
+from plumbrod.kinematics.mobility import Mobility, analyse_mobility
+from plumbrod.kinematics.routes import RouteMap, find_routes
+from plumbrod.kinematics.sweeps import SweepResult, run_sweeps
 from plumbrod.mechanics.loads import AppliedLoads, applied_loads, design_load_cases
 from plumbrod.mechanics.members import Member, resolve_members
-from plumbrod.kinematics.mobility import Mobility, analyse_mobility
-from plumbrod.design.model import Design
-from plumbrod.kinematics.routes import RouteMap, find_routes
 from plumbrod.mechanics.statics import Statics, solve_statics
-from plumbrod.kinematics.sweeps import SweepResult, run_sweeps
 
 __all__ = ["Analysis", "analyse"]
 

@@ -19,11 +19,11 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from plumbrod.kinematics.linkage import Linkage
-from plumbrod.mechanics.members import Member
 from plumbrod.design.model import PLANE_NORMAL_AXIS, Design, Element, LoadCase
-from plumbrod.mechanics.plates import rocker_mass_kg
+from plumbrod.kinematics.linkage import Linkage
 from plumbrod.kinematics.routes import RouteMap
+from plumbrod.mechanics.members import Member
+from plumbrod.mechanics.plates import rocker_mass_kg
 
 __all__ = [
     "SEA_LEVEL_DENSITY_KG_M3",

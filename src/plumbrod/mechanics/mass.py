@@ -19,13 +19,13 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from plumbrod.mechanics.analysis import Analysis
-from plumbrod.kinematics.drives import TravelDrive
-from plumbrod.mechanics.loads import STANDARD_GRAVITY_M_S2, applied_loads
 from plumbrod.design.model import Element, LoadCase
+from plumbrod.kinematics.drives import TravelDrive
+from plumbrod.kinematics.sweeps import SweepSpec, run_sweep
+from plumbrod.mechanics.analysis import Analysis
+from plumbrod.mechanics.loads import STANDARD_GRAVITY_M_S2, applied_loads
 from plumbrod.mechanics.plates import rocker_mass_kg
 from plumbrod.mechanics.statics import solve_statics
-from plumbrod.kinematics.sweeps import SweepSpec, run_sweep
 
 __all__ = ["CornerMass", "MassReport", "element_inertia", "mass_report"]
 

@@ -11,10 +11,15 @@ import math
 from collections.abc import Mapping
 from dataclasses import dataclass
 
-from plumbrod.errors import DesignFileError
-from plumbrod.design.materials import Material, UnknownMaterialError, load_materials, lookup_material
+from plumbrod.design.materials import (
+    Material,
+    UnknownMaterialError,
+    load_materials,
+    lookup_material,
+)
 from plumbrod.design.model import Design, Rod
 from plumbrod.design.sections import Section
+from plumbrod.errors import DesignFileError
 
 __all__ = ["Member", "material_table", "resolve_members", "rocker_material"]
 

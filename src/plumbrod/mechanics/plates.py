@@ -10,11 +10,11 @@ from __future__ import annotations
 
 import numpy as np
 
-from plumbrod.errors import DesignFileError
-from plumbrod.mechanics.members import rocker_material
 from plumbrod.design.model import Design, Rocker
+from plumbrod.errors import DesignFileError
 from plumbrod.geometry.plate_outline import PlateOutline, plate_outline
 from plumbrod.geometry.shapes import GeometryError
+from plumbrod.mechanics.members import rocker_material
 
 __all__ = ["rocker_mass_kg", "rocker_outlines"]
 

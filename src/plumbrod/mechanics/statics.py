@@ -29,11 +29,12 @@ from numpy.typing import NDArray
 
 from plumbrod.kinematics.drives import BodyDrive
 from plumbrod.kinematics.figures import ground_frame
-from plumbrod.kinematics.linkage import FREE, SLIDE, Kinematics, Linkage, cross
-from plumbrod.mechanics.loads import AppliedLoads
-from plumbrod.mechanics.members import Member
+from plumbrod.kinematics.frames import cross
+from plumbrod.kinematics.linkage import FREE, SLIDE, Kinematics, Linkage
 from plumbrod.kinematics.routes import RouteMap
 from plumbrod.kinematics.sweeps import SweepResult
+from plumbrod.mechanics.loads import AppliedLoads
+from plumbrod.mechanics.members import Member
 
 __all__ = ["Statics", "reference_points", "solve_statics"]
 

@@ -46,10 +46,10 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from plumbrod import __version__
-from plumbrod.mechanics.analysis import Analysis
-from plumbrod.errors import PlumbrodError, UsageError
 from plumbrod.design.model import Design
+from plumbrod.errors import PlumbrodError, UsageError
 from plumbrod.geometry.plate_outline import PlateOutline
+from plumbrod.mechanics.analysis import Analysis
 from plumbrod.outputs.plate_profile import PlateProfile, plate_profile
 
 if TYPE_CHECKING:  # pragma: no cover

@@ -23,8 +23,8 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
-from plumbrod.errors import UsageError
 from plumbrod.design.model import Design
+from plumbrod.errors import UsageError
 
 if TYPE_CHECKING:  # pragma: no cover
     from ezdxf.document import Drawing

@@ -14,10 +14,10 @@ import numpy as np
 from numpy.typing import NDArray
 
 from plumbrod.mechanics.analysis import Analysis
+from plumbrod.mechanics.members import Member
 from plumbrod.outputs.cautions import CAUTION
 from plumbrod.verdict.checks import CheckResult
 from plumbrod.verdict.findings import Findings
-from plumbrod.mechanics.members import Member
 
 __all__ = ["as_json", "as_text", "verdict"]
 

@@ -19,11 +19,11 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from plumbrod.mechanics.columns import critical_load_N
-from plumbrod.verdict.findings import Findings
 from plumbrod.design.materials import Material
-from plumbrod.mechanics.members import Member, material_table
 from plumbrod.design.sections import Section, catalogue_sections
+from plumbrod.mechanics.columns import critical_load_N
+from plumbrod.mechanics.members import Member, material_table
+from plumbrod.verdict.findings import Findings
 
 __all__ = ["SizingChoice", "apply_sizes", "choose_sections", "file_rod_name", "thinnest_wall_mm"]
 

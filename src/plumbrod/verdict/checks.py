@@ -16,8 +16,8 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from plumbrod.mechanics.analysis import Analysis
 from plumbrod.clearance.survey import ClearanceReport, clearance_report
+from plumbrod.mechanics.analysis import Analysis
 from plumbrod.mechanics.compliance import ComplianceReport, compliance_report
 from plumbrod.mechanics.structure import RodReserve, rod_reserves
 

@@ -5,13 +5,13 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from plumbrod.mechanics.analysis import Analysis, analyse
-from plumbrod.verdict.checks import CheckResult, evaluate_checks
 from plumbrod.clearance.survey import ClearanceReport, clearance_report
+from plumbrod.design.model import Design
+from plumbrod.mechanics.analysis import Analysis, analyse
 from plumbrod.mechanics.compliance import ComplianceReport, compliance_report
 from plumbrod.mechanics.mass import MassReport, mass_report
-from plumbrod.design.model import Design
 from plumbrod.mechanics.structure import RodReserve, rod_reserves
+from plumbrod.verdict.checks import CheckResult, evaluate_checks
 
 __all__ = ["Findings", "review"]
 
