@@ -64,8 +64,9 @@ def _fmt(values: tuple[float, ...]) -> str:
 
 
 def _rod(name: str, a: str, b: str) -> str:
-    return (f'[rods.{name}]\nends = ["{a}", "{b}"]\nmaterial = "4130-N"\n'
-            "od_mm = 16.0\nwall_mm = 1.2\n")
+    return (
+        f'[rods.{name}]\nends = ["{a}", "{b}"]\nmaterial = "4130-N"\nod_mm = 16.0\nwall_mm = 1.2\n'
+    )
 
 
 # ---------------------------------------------------------------------------------
@@ -99,13 +100,14 @@ class SideChain:
 def side_chain_text(chain: SideChain = SideChain(), *, body_sweeps: bool = True) -> str:
     """TOML of a side-view planar chain (corner ``front``, rocker ``lever``, element ``wing``)."""
     c = chain
-    sweeps = (f"[sweeps.travel]\nrange_mm = {_fmt(c.travel_mm)}\nsteps = {c.travel_steps}\n")
+    sweeps = f"[sweeps.travel]\nrange_mm = {_fmt(c.travel_mm)}\nsteps = {c.travel_steps}\n"
     if body_sweeps:
-        sweeps += ("\n[sweeps.heave]\nrange_mm = [-25.0, 25.0]\nsteps = 21\n"
-                   "\n[sweeps.pitch]\nrange_deg = [-1.5, 1.5]\nsteps = 21\n")
+        sweeps += (
+            "\n[sweeps.heave]\nrange_mm = [-25.0, 25.0]\nsteps = 21\n"
+            "\n[sweeps.pitch]\nrange_deg = [-1.5, 1.5]\nsteps = 21\n"
+        )
     else:
-        sweeps += ("\n[sweeps.heave]\nenabled = false\n"
-                   "\n[sweeps.pitch]\nenabled = false\n")
+        sweeps += "\n[sweeps.heave]\nenabled = false\n\n[sweeps.pitch]\nenabled = false\n"
     return f"""\
 # Invented test fixture: a side-view planar route.
 [design]
@@ -375,12 +377,15 @@ steps = [5, 5]
 # ---------------------------------------------------------------------------------
 
 
-def aero_text(element: str, area_m2: float, downforce_coefficient: float,
-              drag_coefficient: float) -> str:
+def aero_text(
+    element: str, area_m2: float, downforce_coefficient: float, drag_coefficient: float
+) -> str:
     """An ``[elements.<element>.aero]`` table to append to a design text."""
-    return (f"\n[elements.{element}.aero]\nreference_area_m2 = {area_m2!r}\n"
-            f"downforce_coefficient = {downforce_coefficient!r}\n"
-            f"drag_coefficient = {drag_coefficient!r}\n")
+    return (
+        f"\n[elements.{element}.aero]\nreference_area_m2 = {area_m2!r}\n"
+        f"downforce_coefficient = {downforce_coefficient!r}\n"
+        f"drag_coefficient = {drag_coefficient!r}\n"
+    )
 
 
 def load_cases_text(cases: dict[str, dict[str, object]]) -> str:
@@ -393,8 +398,10 @@ def load_cases_text(cases: dict[str, dict[str, object]]) -> str:
         lines = [f"\n[load_cases.{name}]"]
         for key, value in keys.items():
             if key == "forces_N":
-                forces = ", ".join(f"{e} = {_fmt(tuple(f))}"  # type: ignore[arg-type]
-                                   for e, f in value.items())  # type: ignore[attr-defined]
+                forces = ", ".join(
+                    f"{e} = {_fmt(tuple(f))}"  # type: ignore[arg-type]
+                    for e, f in value.items()
+                )  # type: ignore[attr-defined]
                 lines.append(f"forces_N = {{ {forces} }}")
             else:
                 lines.append(f"{key} = {float(value)!r}")  # type: ignore[arg-type]
@@ -407,11 +414,15 @@ def load_cases_text(cases: dict[str, dict[str, object]]) -> str:
 # ---------------------------------------------------------------------------------
 
 
-def three_hangers_text(hangers: tuple[tuple[str, float, str, float, float | None], ...] = (
+def three_hangers_text(
+    hangers: tuple[tuple[str, float, str, float, float | None], ...] = (
         ("a", -200.0, "4130-N", 16.0, 1.2),
         ("b", 100.0, "4130-N", 12.0, 1.0),
-        ("c", 300.0, "6061-T6", 20.0, 2.0)),
-        length_mm: float = 400.0, centre_of_pressure_x_mm: float = 180.0) -> str:
+        ("c", 300.0, "6061-T6", 20.0, 2.0),
+    ),
+    length_mm: float = 400.0,
+    centre_of_pressure_x_mm: float = 180.0,
+) -> str:
     """TOML of a side-view beam ``beam`` hung by vertical rods of equal length from
     pickups on the slider upright of corner ``front`` (one redundant rod when there are
     three), with one horizontal guide to the chassis at the beam's height.
@@ -427,8 +438,10 @@ def three_hangers_text(hangers: tuple[tuple[str, float, str, float, float | None
     rods = []
     for n, _, material, od, wall in hangers:
         section = "solid = true\n" if wall is None else f"wall_mm = {wall!r}\n"
-        rods.append(f'[rods.{n}]\nends = ["front.upright.{n}", "beam.{n}"]\n'
-                    f'material = "{material}"\nod_mm = {od!r}\n{section}')
+        rods.append(
+            f'[rods.{n}]\nends = ["front.upright.{n}", "beam.{n}"]\n'
+            f'material = "{material}"\nod_mm = {od!r}\n{section}'
+        )
     return f"""\
 # Invented test fixture: a beam hung from one upright by parallel vertical rods.
 [design]
@@ -544,14 +557,26 @@ def travel_sweep(link: Linkage, travel_mm: Array) -> SweepResult:
     return run_sweep(link, spec)
 
 
-def body_sweep(link: Linkage, heave_mm: Array, roll_deg: Array, pitch_deg: Array,
-               centre_mm: tuple[float, float, float] = (0.0, 0.0, 0.0)) -> SweepResult:
+def body_sweep(
+    link: Linkage,
+    heave_mm: Array,
+    roll_deg: Array,
+    pitch_deg: Array,
+    centre_mm: tuple[float, float, float] = (0.0, 0.0, 0.0),
+) -> SweepResult:
     """The body at each (heave, roll, pitch) with the wheels on the ground."""
-    params = np.stack((np.asarray(heave_mm, float), np.radians(roll_deg),
-                       np.radians(pitch_deg)), axis=1)
-    spec = SweepSpec("body", BodyDrive(params, centre_mm),
-                     {"heave_mm": params[:, 0], "roll_deg": np.asarray(roll_deg, float),
-                      "pitch_deg": np.asarray(pitch_deg, float)})
+    params = np.stack(
+        (np.asarray(heave_mm, float), np.radians(roll_deg), np.radians(pitch_deg)), axis=1
+    )
+    spec = SweepSpec(
+        "body",
+        BodyDrive(params, centre_mm),
+        {
+            "heave_mm": params[:, 0],
+            "roll_deg": np.asarray(roll_deg, float),
+            "pitch_deg": np.asarray(pitch_deg, float),
+        },
+    )
     return run_sweep(link, spec)
 
 
@@ -622,7 +647,8 @@ def pivot_distance_errors(design: Design, link: Linkage, points: Array) -> dict[
             for end in ("front", "rear"):
                 inner = np.array(getattr(w, f"{side}_{end}_mm"))
                 out[f"{corner.name} {side} ball to {end} pivot"] = np.abs(
-                    np.linalg.norm(on_upright - inner, axis=-1) - np.linalg.norm(ball0 - inner))
+                    np.linalg.norm(on_upright - inner, axis=-1) - np.linalg.norm(ball0 - inner)
+                )
             out[f"{corner.name} {side} ball gap"] = np.linalg.norm(on_upright - on_arm, axis=-1)
     return out
 

@@ -79,8 +79,13 @@ def aero_force_ground_N(design: Design, element: str, case: LoadCase) -> Array:
         return np.zeros(3)
     v_m_s = case.speed_kmh / 3.6  # 1 km/h = 1/3.6 m/s exactly
     q_pa = 0.5 * case.air_density_kg_m3 * v_m_s**2
-    return np.array([-q_pa * aero.reference_area_m2 * aero.drag_coefficient, 0.0,
-                     -q_pa * aero.reference_area_m2 * aero.downforce_coefficient])
+    return np.array(
+        [
+            -q_pa * aero.reference_area_m2 * aero.drag_coefficient,
+            0.0,
+            -q_pa * aero.reference_area_m2 * aero.downforce_coefficient,
+        ]
+    )
 
 
 def inertia_force_ground_N(mass_kg: float, case: LoadCase) -> Array:
@@ -102,8 +107,9 @@ def rod_mass_kg(design: Design, rod_name: str) -> float:
     return density * area_mm2 * float(np.linalg.norm(a - b)) * 1e-9
 
 
-def _point_loads(analysis: Analysis, result: SweepResult,
-                 cases: tuple[LoadCase, ...]) -> list[tuple[int, Array, Array]]:
+def _point_loads(
+    analysis: Analysis, result: SweepResult, cases: tuple[LoadCase, ...]
+) -> list[tuple[int, Array, Array]]:
     """Every applied load: (body index, point (B, 3), force (B, K, 3)), chassis frame."""
     design, link = analysis.design, analysis.link
     kin = result.solved.kin
@@ -116,11 +122,15 @@ def _point_loads(analysis: Analysis, result: SweepResult,
     for element in design.elements:
         body = link.body(element.name)
         aero = np.array([aero_force_ground_N(design, element.name, c) for c in cases])
-        loads.append((body, kin.points[:, link.point(f"{element.name}.centre_of_pressure")],
-                      to_chassis(aero)))
+        loads.append(
+            (
+                body,
+                kin.points[:, link.point(f"{element.name}.centre_of_pressure")],
+                to_chassis(aero),
+            )
+        )
         weight = np.array([inertia_force_ground_N(element.mass_kg, c) for c in cases])
-        loads.append((body, kin.points[:, link.point(f"{element.name}.cg")],
-                      to_chassis(weight)))
+        loads.append((body, kin.points[:, link.point(f"{element.name}.cg")], to_chassis(weight)))
     for rocker in design.rockers:
         # a rocker without mass_kg weighs what its plate weighs (net area x thickness x
         # density; the outline area is tested against shapely in test_plate_outline.py)
@@ -137,8 +147,9 @@ def _point_loads(analysis: Analysis, result: SweepResult,
         for end in (rod.end_a, rod.end_b):
             if design.pickups[end].body == CHASSIS:
                 continue
-            loads.append((link.body(design.pickups[end].body), kin.points[:, link.point(end)],
-                          weight))
+            loads.append(
+                (link.body(design.pickups[end].body), kin.points[:, link.point(end)], weight)
+            )
     return loads
 
 
@@ -216,9 +227,13 @@ def body_sums(analysis: Analysis, sweep: str) -> BodySums:
             from_children[:, :, link.parent[b]] -= st.joint_wrench[:, :, b]
     chassis = links[:, :, 0] + from_children[:, :, 0]
 
-    force_scale = max(float(np.abs(st.rod_force_N).max(initial=0.0)),
-                      float(np.abs(st.contact_force_N).max(initial=0.0)),
-                      float(np.linalg.norm(applied[..., 0:3], axis=-1).max()), 1e-300)
+    force_scale = max(
+        float(np.abs(st.rod_force_N).max(initial=0.0)),
+        float(np.abs(st.contact_force_N).max(initial=0.0)),
+        float(np.linalg.norm(applied[..., 0:3], axis=-1).max()),
+        1e-300,
+    )
     length_scale = float(np.linalg.norm(pts, axis=-1).max())
-    return BodySums(links, applied, from_children, st.joint_wrench, chassis, contact,
-                    force_scale, length_scale)
+    return BodySums(
+        links, applied, from_children, st.joint_wrench, chassis, contact, force_scale, length_scale
+    )

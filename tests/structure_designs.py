@@ -62,8 +62,9 @@ def tube_second_moment_mm4(od_mm: float, wall_mm: float | None) -> float:
     return math.pi * (od_mm**4 - inner**4) / 64.0
 
 
-def rod_mass_kg(material: MaterialFigures, od_mm: float, wall_mm: float | None,
-                length_mm: float) -> float:
+def rod_mass_kg(
+    material: MaterialFigures, od_mm: float, wall_mm: float | None, length_mm: float
+) -> float:
     """ρ·A·L with A in mm² and L in mm converted to m³."""
     return material.density_kg_m3 * tube_area_mm2(od_mm, wall_mm) * length_mm * 1e-9
 
@@ -93,33 +94,41 @@ def _fmt(values: tuple[float, ...]) -> str:
 
 
 def _rod(name: str, a: str, b: str, spec: RodSpec) -> str:
-    section = ("solid = true\n" if spec.wall_mm is None
-               else f"wall_mm = {spec.wall_mm!r}\n")
-    return (f'[rods.{name}]\nends = ["{a}", "{b}"]\nmaterial = "{spec.material.id}"\n'
-            f"od_mm = {spec.od_mm!r}\n{section}end_fixity = {spec.end_fixity!r}\n")
+    section = "solid = true\n" if spec.wall_mm is None else f"wall_mm = {spec.wall_mm!r}\n"
+    return (
+        f'[rods.{name}]\nends = ["{a}", "{b}"]\nmaterial = "{spec.material.id}"\n'
+        f"od_mm = {spec.od_mm!r}\n{section}end_fixity = {spec.end_fixity!r}\n"
+    )
 
 
 def _materials(*specs: RodSpec) -> str:
     if not any(s.material is FEATHER for s in specs):
         return ""
     m = FEATHER
-    return (f"[materials.{m.id}]\nmodulus_MPa = {m.modulus_MPa!r}\n"
-            f"yield_MPa = {m.yield_MPa!r}\nultimate_MPa = 670.0\n"
-            f"density_kg_m3 = {m.density_kg_m3!r}\n"
-            'source = "test fixture: 4130-N stiffness and yield, negligible density"\n')
+    return (
+        f"[materials.{m.id}]\nmodulus_MPa = {m.modulus_MPa!r}\n"
+        f"yield_MPa = {m.yield_MPa!r}\nultimate_MPa = 670.0\n"
+        f"density_kg_m3 = {m.density_kg_m3!r}\n"
+        'source = "test fixture: 4130-N stiffness and yield, negligible density"\n'
+    )
 
 
 def _sweeps(travel_mm: float, steps: int, plane: str) -> str:
-    body = ("[sweeps.heave]\nenabled = false\n\n[sweeps.pitch]\nenabled = false\n"
-            if plane == "side" else
-            "[sweeps.heave]\nenabled = false\n\n[sweeps.roll]\nenabled = false\n")
-    return (f"[sweeps.travel]\nrange_mm = [{-travel_mm!r}, {travel_mm!r}]\nsteps = {steps}\n\n"
-            + body)
+    body = (
+        "[sweeps.heave]\nenabled = false\n\n[sweeps.pitch]\nenabled = false\n"
+        if plane == "side"
+        else "[sweeps.heave]\nenabled = false\n\n[sweeps.roll]\nenabled = false\n"
+    )
+    return (
+        f"[sweeps.travel]\nrange_mm = [{-travel_mm!r}, {travel_mm!r}]\nsteps = {steps}\n\n" + body
+    )
 
 
 def _load_case(element: str, force_N: float, bump_g: float = 0.0) -> str:
-    return (f"[load_cases.down]\nspeed_kmh = 0.0\nbump_g = {bump_g!r}\n"
-            f"forces_N = {{ {element} = [0.0, 0.0, {-force_N!r}] }}\n")
+    return (
+        f"[load_cases.down]\nspeed_kmh = 0.0\nbump_g = {bump_g!r}\n"
+        f"forces_N = {{ {element} = [0.0, 0.0, {-force_N!r}] }}\n"
+    )
 
 
 # ---------------------------------------------------------------------------------
@@ -182,13 +191,14 @@ def hang_text(h: Hang = Hang()) -> str:
     else:
         a = h.drive_arm_mm
         upright = f"drive = {_fmt((a, h.upright_z_mm))}\n"
-        lever = (f"[rockers.lever]\nparent = \"chassis\"\npivot_mm = {_fmt((0.0, h.pivot_z_mm))}"
-                 f"\n\n[rockers.lever.pickups]\ndrive = {_fmt((a, h.pivot_z_mm))}\n"
-                 f"hanger = {_fmt((x, h.pivot_z_mm))}\n")
+        lever = (
+            f'[rockers.lever]\nparent = "chassis"\npivot_mm = {_fmt((0.0, h.pivot_z_mm))}'
+            f"\n\n[rockers.lever.pickups]\ndrive = {_fmt((a, h.pivot_z_mm))}\n"
+            f"hanger = {_fmt((x, h.pivot_z_mm))}\n"
+        )
         top = "lever.hanger"
         drive = _rod("drive", "front.upright.drive", "lever.drive", h.rods)
-    inertia = ("" if h.inertia_kg_m2 is None
-               else f"inertia_kg_m2 = {_fmt(h.inertia_kg_m2)}\n")
+    inertia = "" if h.inertia_kg_m2 is None else f"inertia_kg_m2 = {_fmt(h.inertia_kg_m2)}\n"
     return f"""\
 # Invented test fixture: an element hung below one slider corner.
 [design]
@@ -325,14 +335,15 @@ def front_pair_text(p: FrontPair = FrontPair()) -> str:
     """TOML of :class:`FrontPair`: corners ``front_left`` (+y) and ``front_right``,
     element ``tray``, rods ``hanger_left``, ``hanger_right``, ``guide``."""
     d, ze = p.half_span_mm, p.element_z_mm
-    inertia = ("" if p.inertia_kg_m2 is None
-               else f"inertia_kg_m2 = {_fmt(p.inertia_kg_m2)}\n")
+    inertia = "" if p.inertia_kg_m2 is None else f"inertia_kg_m2 = {_fmt(p.inertia_kg_m2)}\n"
     corners = ""
     for side, sign in (("left", 1.0), ("right", -1.0)):
-        corners += (f"[corners.front_{side}]\nwheel_centre_mm = {_fmt((sign * 700.0, 300.0))}\n"
-                    "tyre_radius_mm = 300.0\ntyre_width_mm = 240.0\nsuspension = \"slider\"\n\n"
-                    f"[corners.front_{side}.pickups.upright]\n"
-                    f"hanger = {_fmt((sign * d, p.upright_z_mm))}\n\n")
+        corners += (
+            f"[corners.front_{side}]\nwheel_centre_mm = {_fmt((sign * 700.0, 300.0))}\n"
+            'tyre_radius_mm = 300.0\ntyre_width_mm = 240.0\nsuspension = "slider"\n\n'
+            f"[corners.front_{side}.pickups.upright]\n"
+            f"hanger = {_fmt((sign * d, p.upright_z_mm))}\n\n"
+        )
     return f"""\
 # Invented test fixture: one element hung from two slider corners (front view).
 [design]

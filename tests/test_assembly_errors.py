@@ -30,8 +30,7 @@ def _dead_point_travel() -> float:
 
 
 def _text() -> str:
-    return side_chain_text(SideChain(travel_mm=(-80.0, 40.0), travel_steps=121),
-                           body_sweeps=False)
+    return side_chain_text(SideChain(travel_mm=(-80.0, 40.0), travel_steps=121), body_sweeps=False)
 
 
 def test_a_rod_past_its_dead_point_is_named_with_the_travel() -> None:
@@ -51,11 +50,25 @@ def test_a_rod_past_its_dead_point_is_named_with_the_travel() -> None:
 def test_the_command_line_exits_1_with_one_line_and_writes_nothing(tmp_path: Path) -> None:
     design = tmp_path / "dead.toml"
     design.write_text(_text())
-    env = {**os.environ, "PYTHONPATH": os.pathsep.join(
-        p for p in (str(SRC), os.environ.get("PYTHONPATH", "")) if p)}
-    done = subprocess.run([sys.executable, "-m", "plumbrod", "check", str(design), "-o",
-                           str(tmp_path / "report.txt")], capture_output=True, text=True,
-                          check=False, env=env)
+    env = {
+        **os.environ,
+        "PYTHONPATH": os.pathsep.join(p for p in (str(SRC), os.environ.get("PYTHONPATH", "")) if p),
+    }
+    done = subprocess.run(
+        [
+            sys.executable,
+            "-m",
+            "plumbrod",
+            "check",
+            str(design),
+            "-o",
+            str(tmp_path / "report.txt"),
+        ],
+        capture_output=True,
+        text=True,
+        check=False,
+        env=env,
+    )
     assert done.returncode == 1
     assert done.stdout == ""
     assert done.stderr.count("\n") == 1 and "Traceback" not in done.stderr

@@ -26,9 +26,11 @@ from plumbrod.mechanics.plates import rocker_outlines
 
 def _all_points(analysis):  # (poses of every sweep, np, 3), rotations, translations
     kins = [r.solved.kin for r in analysis.sweeps.values()]
-    return (np.concatenate([k.points for k in kins]),
-            np.concatenate([k.rotation for k in kins]),
-            np.concatenate([k.translation for k in kins]))
+    return (
+        np.concatenate([k.points for k in kins]),
+        np.concatenate([k.rotation for k in kins]),
+        np.concatenate([k.translation for k in kins]),
+    )
 
 
 def _rod_capsule(analysis, name, points):
@@ -66,8 +68,9 @@ def test_a_zone_moved_into_a_rod_is_interference_at_least_as_deep_as_at_rest():
     zone = zone_solids(analysis)["zone 'intruder'"][0]
     brute = separation(_rod_capsule(analysis, "drop_left", points), zone).distance_mm
     assert pair.distance_mm == pytest.approx(float(np.min(brute)), abs=1e-9)
-    at_rest = separation(Capsule(np.array([57.5, 514.0, 147.0]), np.array([57.5, 514.0, 250.0]),
-                                 8.0), zone).distance_mm
+    at_rest = separation(
+        Capsule(np.array([57.5, 514.0, 147.0]), np.array([57.5, 514.0, 250.0]), 8.0), zone
+    ).distance_mm
     assert float(at_rest) == pytest.approx(-3.0, abs=1e-9)
     assert report.pairs[0] == pair  # the worst pair is listed first
 
@@ -76,8 +79,12 @@ def test_the_clearance_check_fails_on_interference_through_the_command_line(tmp_
     face = 514.0 + 8.0 - 3.0
     path = tmp_path / "intruder.toml"
     path.write_text(EXAMPLE.read_text() + ZONE_INTO_DROP_ROD.format(y=face + 50.0))
-    done = subprocess.run([sys.executable, "-m", "plumbrod", "check", str(path), "--json"],
-                          capture_output=True, text=True, check=False)
+    done = subprocess.run(
+        [sys.executable, "-m", "plumbrod", "check", str(path), "--json"],
+        capture_output=True,
+        text=True,
+        check=False,
+    )
     assert done.returncode == 1, done.stderr
     check = next(c for c in json.loads(done.stdout)["checks"] if c["id"] == "clearance")
     assert check["status"] == "fail"
@@ -88,7 +95,8 @@ def test_the_clearance_check_fails_on_interference_through_the_command_line(tmp_
 def test_a_zone_clearance_limit_overrides_the_global_one():
     text = EXAMPLE.read_text().replace(
         '[zones.steering_rack]\nkind = "cylinder"',
-        '[zones.steering_rack]\nkind = "cylinder"\nclearance_mm = 30.0')
+        '[zones.steering_rack]\nkind = "cylinder"\nclearance_mm = 30.0',
+    )
     analysis = analyse(parse_design(text, "rack.toml"))
     report = clearance_report(analysis)
     pair = _pair(report, "rod 'drag_high'", "zone 'steering_rack'")
@@ -116,14 +124,16 @@ size_mm = [200.0, 200.0, 200.0]
 
 def _front_plate_design():
     text = front_chain_text(FrontChain())
-    text = replace_once(text, "[rockers.lever_left.pickups]",
-                        PLATE.strip() + "\n\n[rockers.lever_left.pickups]")
+    text = replace_once(
+        text, "[rockers.lever_left.pickups]", PLATE.strip() + "\n\n[rockers.lever_left.pickups]"
+    )
     # only the roll sweep: the plate passes the box's edge as the body rolls
     for table in ("[sweeps.travel]", "[sweeps.heave]"):
         text = replace_once(text, table, table + "\nenabled = false")
     text = replace_once(text, "[sweeps.heave_roll]\nsteps = [5, 5]\n", "")
-    text = replace_once(text, "range_deg = [-2.0, 2.0]\nsteps = 21",
-                        "range_deg = [-3.0, 3.0]\nsteps = 61")
+    text = replace_once(
+        text, "range_deg = [-2.0, 2.0]\nsteps = 21", "range_deg = [-3.0, 3.0]\nsteps = 61"
+    )
     return text + CORNER_ZONE
 
 
@@ -136,8 +146,9 @@ def test_a_rocker_plate_passing_a_zone_edge_in_roll_matches_brute_force():
     outline = rocker_outlines(analysis.design)["lever_left"]
     _, rot, trans = _all_points(analysis)
     b = analysis.link.body("lever_left")
-    plate = Plate(outline.vertices_3d(rot[:, b], trans[:, b], chord_tol_mm=0.5),
-                  outline.thickness_mm)
+    plate = Plate(
+        outline.vertices_3d(rot[:, b], trans[:, b], chord_tol_mm=0.5), outline.thickness_mm
+    )
     zone = zone_solids(analysis)["zone 'corner_box'"][0]
     brute = np.asarray(separation(plate, zone).distance_mm)
     assert pair.distance_mm == pytest.approx(float(brute.min()), abs=1e-9)
@@ -159,8 +170,9 @@ def test_far_pairs_are_lower_bounds_of_the_true_least_distance():
         if not pair.a.startswith("rod") or pair.b not in zones:
             continue
         rod = pair.a.split("'")[1]
-        exact = np.asarray(separation(_rod_capsule(analysis, rod, points),
-                                      zones[pair.b][0]).distance_mm).min()
+        exact = np.asarray(
+            separation(_rod_capsule(analysis, rod, points), zones[pair.b][0]).distance_mm
+        ).min()
         assert pair.distance_mm <= exact + 1e-9
         checked += 1
     assert checked > 0
@@ -168,12 +180,15 @@ def test_far_pairs_are_lower_bounds_of_the_true_least_distance():
 
 def test_a_joint_inside_a_zone_is_listed_and_not_checked():
     # a zone around the chassis end of drag_low: that joint is meant to be there
-    text = EXAMPLE.read_text() + """
+    text = (
+        EXAMPLE.read_text()
+        + """
 [zones.bracket]
 kind = "box"
 centre_mm = [120.0, 0.0, 75.0]
 size_mm = [20.0, 20.0, 20.0]
 """
+    )
     analysis = analyse(parse_design(text, "bracket.toml"))
     report = clearance_report(analysis)
     assert any("drag_low" in note and "bracket" in note for note in report.skipped)
@@ -186,15 +201,19 @@ def test_an_element_envelope_moves_with_the_element_and_is_checked():
     text = EXAMPLE.read_text().replace(
         "[elements.splitter.aero]",
         "[elements.splitter.envelope]\ncentre_mm = [600.0, 0.0, 120.0]\n"
-        "size_mm = [300.0, 200.0, 140.0]\n\n[elements.splitter.aero]")
+        "size_mm = [300.0, 200.0, 140.0]\n\n[elements.splitter.aero]",
+    )
     analysis = analyse(parse_design(text, "envelope.toml"))
     report = clearance_report(analysis)
     pair = _pair(report, "envelope of element 'splitter'", "zone 'radiator'")
     assert pair.exact
     _, rot, trans = _all_points(analysis)
     b = analysis.link.body("splitter")
-    box = Box(rot[:, b] @ np.array([600.0, 0.0, 120.0]) + trans[:, b],
-              np.array([150.0, 100.0, 70.0]), rot[:, b])
+    box = Box(
+        rot[:, b] @ np.array([600.0, 0.0, 120.0]) + trans[:, b],
+        np.array([150.0, 100.0, 70.0]),
+        rot[:, b],
+    )
     zone = zone_solids(analysis)["zone 'radiator'"][0]
     brute = np.asarray(separation(box, zone).distance_mm)
     assert pair.distance_mm == pytest.approx(float(brute.min()), abs=1e-9)

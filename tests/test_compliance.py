@@ -57,8 +57,10 @@ def test_a_longer_lever_makes_the_route_softer() -> None:
     # the drive rod's stretch reaches the element multiplied by r²: at a larger ratio
     # the same rods give a softer route (hand derivation above)
     rods = RodSpec(material=STEEL_4130N)
-    stiff = [next(iter(_compliance(Hang(ratio=r, rods=rods)).route_stiffness_N_per_mm
-                       .values())) for r in (0.8, 1.25)]
+    stiff = [
+        next(iter(_compliance(Hang(ratio=r, rods=rods)).route_stiffness_N_per_mm.values()))
+        for r in (0.8, 1.25)
+    ]
     assert stiff[1] < stiff[0]
     assert stiff[0] == pytest.approx(_hand_stiffness(Hang(ratio=0.8, rods=rods)), rel=1e-9)
 
@@ -69,8 +71,7 @@ def test_element_deflection_is_load_over_route_stiffness(ratio: float | None) ->
     # element's weight; rods of negligible mass): the guides carry nothing and the
     # element's centre of pressure, straight below the hanger, drops F_total/k.
     force_N, mass_kg = 1500.0, 5.0
-    h = Hang(ratio=ratio, force_N=force_N, element_mass_kg=mass_kg,
-             rods=RodSpec(material=FEATHER))
+    h = Hang(ratio=ratio, force_N=force_N, element_mass_kg=mass_kg, rods=RodSpec(material=FEATHER))
     report = _compliance(h)
     total_N = force_N + mass_kg * G0_M_S2
     design_pose = h.travel_steps // 2  # the travel sweep is symmetric about 0 mm

@@ -90,11 +90,15 @@ def sample_surface(solid, spacing):
     if isinstance(solid, Prism):
         frame = np.stack([solid.u, solid.v, solid.w])
         pts2 = _fill_polygon(solid.polygon_2d, spacing)
-        out = [np.c_[pts2, np.full(len(pts2), z)] @ frame
-               for z in (solid.depth_min, solid.depth_max)]
+        out = [
+            np.c_[pts2, np.full(len(pts2), z)] @ frame for z in (solid.depth_min, solid.depth_max)
+        ]
         ring = _ring(solid.polygon_2d, spacing)
-        for z in np.linspace(solid.depth_min, solid.depth_max,
-                             max(2, int((solid.depth_max - solid.depth_min) / spacing) + 1)):
+        for z in np.linspace(
+            solid.depth_min,
+            solid.depth_max,
+            max(2, int((solid.depth_max - solid.depth_min) / spacing) + 1),
+        ):
             out.append(np.c_[ring, np.full(len(ring), z)] @ frame)
         return np.concatenate(out)
     raise TypeError(solid)
@@ -143,7 +147,8 @@ def contains(solid, x, tol=1e-7):
         local = solid.axes @ (x - solid.origin)
         poly = shapely.Polygon(solid.polygon_uv).buffer(tol)
         return abs(local[2]) <= 0.5 * float(solid.thickness) + tol and poly.contains(
-            shapely.Point(local[:2]))
+            shapely.Point(local[:2])
+        )
     raise TypeError(solid)
 
 
@@ -172,19 +177,18 @@ def random_rotation(seed):
 
 def random_capsule(rng, centre=None):
     c = rng.normal(size=3) * 20 if centre is None else centre
-    return Capsule(c + rng.normal(size=3) * 15, c + rng.normal(size=3) * 15,
-                   rng.uniform(0.5, 6))
+    return Capsule(c + rng.normal(size=3) * 15, c + rng.normal(size=3) * 15, rng.uniform(0.5, 6))
 
 
 def random_box(rng):
-    return Box(rng.normal(size=3) * 20, rng.uniform(3, 20, 3),
-               random_rotation(int(rng.integers(1 << 30))))
+    return Box(
+        rng.normal(size=3) * 20, rng.uniform(3, 20, 3), random_rotation(int(rng.integers(1 << 30)))
+    )
 
 
 def random_cylinder(rng):
     p0 = rng.normal(size=3) * 20
-    return Cylinder(p0, p0 + _unit(rng.normal(size=3)) * rng.uniform(5, 40),
-                    rng.uniform(3, 15))
+    return Cylinder(p0, p0 + _unit(rng.normal(size=3)) * rng.uniform(5, 40), rng.uniform(3, 15))
 
 
 def random_plate(rng):
@@ -198,10 +202,21 @@ def random_plate(rng):
     return Plate(verts, rng.uniform(2, 8))
 
 
-MAKERS = {"capsule": random_capsule, "box": random_box, "cylinder": random_cylinder,
-          "plate": random_plate}
-PAIRS = [("capsule", "capsule"), ("capsule", "box"), ("capsule", "cylinder"),
-         ("plate", "box"), ("plate", "cylinder"), ("plate", "capsule"), ("plate", "plate")]
+MAKERS = {
+    "capsule": random_capsule,
+    "box": random_box,
+    "cylinder": random_cylinder,
+    "plate": random_plate,
+}
+PAIRS = [
+    ("capsule", "capsule"),
+    ("capsule", "box"),
+    ("capsule", "cylinder"),
+    ("plate", "box"),
+    ("plate", "cylinder"),
+    ("plate", "capsule"),
+    ("plate", "plate"),
+]
 
 
 # ------------------------------------------------------------------ hand-computed cases
@@ -221,8 +236,10 @@ def test_capsule_parallel_to_box_face():
     # the same scene turned 30 deg about z and moved: still 3 mm
     rot = Rotation.from_euler("z", 30, degrees=True).as_matrix()
     shift = np.array([100.0, -40.0, 7.0])
-    turned = separation(Capsule(rot @ [15, -5, 0] + shift, rot @ [15, 5, 0] + shift, 2),
-                        Box(shift, [10, 20, 30], rot))
+    turned = separation(
+        Capsule(rot @ [15, -5, 0] + shift, rot @ [15, 5, 0] + shift, 2),
+        Box(shift, [10, 20, 30], rot),
+    )
     assert turned.distance_mm == pytest.approx(3.0, abs=1e-12)
 
 
@@ -256,8 +273,11 @@ def test_two_skew_rods():
     assert 0 < s < 1 and 0 < t < 1
     sep = separation(Capsule(x1, x2, 4.0), Capsule(x3, x4, 6.0))
     assert sep.distance_mm == pytest.approx(line_distance - 10.0, abs=1e-9)
-    np.testing.assert_allclose(sep.point_a, x1 + s * b + 4.0 * cross / np.linalg.norm(cross)
-                               * np.sign(np.dot(x3 - x1, cross)), atol=1e-9)
+    np.testing.assert_allclose(
+        sep.point_a,
+        x1 + s * b + 4.0 * cross / np.linalg.norm(cross) * np.sign(np.dot(x3 - x1, cross)),
+        atol=1e-9,
+    )
 
 
 def test_point_to_box_corner():
@@ -440,8 +460,11 @@ def test_prism_pair_invariant_under_motion_about_its_axis(seed, angle):
     # the prism of the turned polygon.
     rng = np.random.default_rng(seed)
     poly = np.array([(0, 0), (60, 0), (60, 15), (15, 15), (15, 50), (0, 50)], float)
-    rod = Capsule(np.r_[rng.uniform(-40, 90, 2), rng.uniform(-30, 30)],
-                  np.r_[rng.uniform(-40, 90, 2), rng.uniform(-30, 30)], 2.0)
+    rod = Capsule(
+        np.r_[rng.uniform(-40, 90, 2), rng.uniform(-30, 30)],
+        np.r_[rng.uniform(-40, 90, 2), rng.uniform(-30, 30)],
+        2.0,
+    )
     plate = random_plate(rng)
     c, s = np.cos(np.radians(angle)), np.sin(np.radians(angle))
     rot2 = np.array([[c, -s], [s, c]])
@@ -573,16 +596,29 @@ def _smooth_track(rng, start, amplitude, n):
 def test_least_separation_is_the_minimum_over_poses(seed):
     rng = np.random.default_rng(seed)
     n = 400
-    rod = Capsule(_smooth_track(rng, rng.normal(size=3) * 30, 20, n),
-                  _smooth_track(rng, rng.normal(size=3) * 30, 20, n), 4.0)
+    rod = Capsule(
+        _smooth_track(rng, rng.normal(size=3) * 30, 20, n),
+        _smooth_track(rng, rng.normal(size=3) * 30, 20, n),
+        4.0,
+    )
     rot = Rotation.from_euler("z", np.linspace(-20, 20, n)[:, None], degrees=True).as_matrix()
     square = np.array([[-15, -10, 0], [15, -10, 0], [15, 10, 0], [-15, 10, 0.0]])
-    plate = Plate(np.einsum("nij,kj->nki", rot, square)
-                  + _smooth_track(rng, np.array([0, 0, 40.0]), 15, n)[:, None], 5.0)
-    tyre = Cylinder(_smooth_track(rng, np.array([0, 90, -40.0]), 10, n),
-                    _smooth_track(rng, np.array([0, 130, -40.0]), 10, n), 60.0)
-    zones = [random_box(rng), random_cylinder(rng), tyre,
-             Prism([(0, 0), (60, 0), (60, 15), (15, 15), (15, 50), (0, 50)], "front", -20, 5)]
+    plate = Plate(
+        np.einsum("nij,kj->nki", rot, square)
+        + _smooth_track(rng, np.array([0, 0, 40.0]), 15, n)[:, None],
+        5.0,
+    )
+    tyre = Cylinder(
+        _smooth_track(rng, np.array([0, 90, -40.0]), 10, n),
+        _smooth_track(rng, np.array([0, 130, -40.0]), 10, n),
+        60.0,
+    )
+    zones = [
+        random_box(rng),
+        random_cylinder(rng),
+        tyre,
+        Prism([(0, 0), (60, 0), (60, 15), (15, 15), (15, 50), (0, 50)], "front", -20, 5),
+    ]
     pairs = [(rod, z) for z in zones] + [(plate, z) for z in zones] + [(plate, rod)]
     for (a, b), least in zip(pairs, least_separations(pairs), strict=True):
         full = separation(a, b).distance_mm
@@ -594,8 +630,11 @@ def test_least_separation_is_the_minimum_over_poses(seed):
 def test_least_separation_skips_most_poses_on_smooth_tracks():
     rng = np.random.default_rng(3)
     n = 2000
-    rod = Capsule(_smooth_track(rng, np.array([0, 0, 80.0]), 25, n),
-                  _smooth_track(rng, np.array([50, 30, 120.0]), 25, n), 5.0)
+    rod = Capsule(
+        _smooth_track(rng, np.array([0, 0, 80.0]), 25, n),
+        _smooth_track(rng, np.array([50, 30, 120.0]), 25, n),
+        5.0,
+    )
     box = Box([0, 0, 0], [40, 40, 20])
     least = least_separation(rod, box)
     full = separation(rod, box).distance_mm
@@ -633,22 +672,38 @@ def test_swapped_order_swaps_points():
         (lambda: Capsule([0, 0], [1, 1, 1], 1), r"Capsule.p0: expected an array of shape"),
         (lambda: Capsule([0, 0, 0], [1, 1, 1], -1), r"Capsule.radius: expected values >= 0"),
         (lambda: Box([0, 0, 0], [1, 0, 1]), r"Box.half_size: expected values > 0"),
-        (lambda: Box([0, 0, 0], [1, 1, 1], np.diag([1, 1, -1.0])),
-         r"Box.rotation: expected a proper rotation"),
-        (lambda: Box([0, 0, 0], [1, 1, 1], np.ones((3, 3))),
-         r"Box.rotation: expected an orthonormal matrix"),
+        (
+            lambda: Box([0, 0, 0], [1, 1, 1], np.diag([1, 1, -1.0])),
+            r"Box.rotation: expected a proper rotation",
+        ),
+        (
+            lambda: Box([0, 0, 0], [1, 1, 1], np.ones((3, 3))),
+            r"Box.rotation: expected an orthonormal matrix",
+        ),
         (lambda: Cylinder([0, 0, 0], [0, 0, 0], 1), r"Cylinder.p1: expected an end point"),
-        (lambda: Prism([(0, 0), (1, 1), (1, 0), (0, 1)], "top", 0, 1),
-         r"Prism.polygon_2d: expected a simple polygon"),
+        (
+            lambda: Prism([(0, 0), (1, 1), (1, 0), (0, 1)], "top", 0, 1),
+            r"Prism.polygon_2d: expected a simple polygon",
+        ),
         (lambda: Prism([(0, 0), (1, 0), (0, 1)], "back", 0, 1), r"Prism.plane: expected one of"),
-        (lambda: Prism([(0, 0), (1, 0), (0, 1)], "top", 1, 1),
-         r"Prism.depth_max: expected a depth greater than"),
-        (lambda: Plate([[0, 0, 0], [10, 0, 0], [10, 10, 0], [5, 2, 0], [0, 10, 0]], 2),
-         r"Plate.vertices: expected a convex polygon"),
-        (lambda: Plate([[0, 0, 0], [10, 0, 0], [10, 10, 1], [0, 10, 0]], 2),
-         r"Plate.vertices: expected coplanar vertices"),
-        (lambda: separation(Cylinder([0, 0, 0], [0, 0, 1], 1), Cylinder([5, 0, 0], [5, 0, 1], 1)),
-         r"separation: expected a pair with a Capsule"),
+        (
+            lambda: Prism([(0, 0), (1, 0), (0, 1)], "top", 1, 1),
+            r"Prism.depth_max: expected a depth greater than",
+        ),
+        (
+            lambda: Plate([[0, 0, 0], [10, 0, 0], [10, 10, 0], [5, 2, 0], [0, 10, 0]], 2),
+            r"Plate.vertices: expected a convex polygon",
+        ),
+        (
+            lambda: Plate([[0, 0, 0], [10, 0, 0], [10, 10, 1], [0, 10, 0]], 2),
+            r"Plate.vertices: expected coplanar vertices",
+        ),
+        (
+            lambda: separation(
+                Cylinder([0, 0, 0], [0, 0, 1], 1), Cylinder([5, 0, 0], [5, 0, 1], 1)
+            ),
+            r"separation: expected a pair with a Capsule",
+        ),
     ],
 )
 def test_bad_inputs_raise(make, match):

@@ -65,8 +65,11 @@ def tilted_file(tmp_path_factory: pytest.TempPathFactory) -> Path:
     """Invented test fixture: the bundled example with a plate on each rocker and the
     left rocker's axis tilted (the right one mirrored), so the plate plane is oblique."""
     text = EXAMPLE.read_text(encoding="utf-8")
-    text = replace_once(text, "axis_mm = [[0.0, 300.0, 250.0], [600.0, 300.0, 250.0]]\n"
-                        "mass_kg = 0.9\n", TILTED_PLATE)
+    text = replace_once(
+        text,
+        "axis_mm = [[0.0, 300.0, 250.0], [600.0, 300.0, 250.0]]\nmass_kg = 0.9\n",
+        TILTED_PLATE,
+    )
     path = tmp_path_factory.mktemp("tilted") / "tilted_plate.toml"
     path.write_text(text, encoding="utf-8")
     return path
@@ -74,14 +77,18 @@ def tilted_file(tmp_path_factory: pytest.TempPathFactory) -> Path:
 
 @pytest.fixture(scope="module")
 def analyses(tilted_file: Path) -> dict[str, tuple[Path, Analysis]]:
-    return {name: (path, analyse(load_design(path)))
-            for name, path in (("splitter", EXAMPLE), ("undertray", UNDERTRAY),
-                               ("tilted", tilted_file))}
+    return {
+        name: (path, analyse(load_design(path)))
+        for name, path in (("splitter", EXAMPLE), ("undertray", UNDERTRAY), ("tilted", tilted_file))
+    }
 
 
 @pytest.fixture(scope="module", params=list(VERSIONS))
-def exported(request: pytest.FixtureRequest, analyses: dict[str, tuple[Path, Analysis]],
-             tmp_path_factory: pytest.TempPathFactory):
+def exported(
+    request: pytest.FixtureRequest,
+    analyses: dict[str, tuple[Path, Analysis]],
+    tmp_path_factory: pytest.TempPathFactory,
+):
     """Every design exported in one DXF version: {design: (analysis, [paths])}."""
     version = request.param
     out = {}
@@ -143,8 +150,10 @@ def _rod_ends(path: Path) -> dict[str, tuple[str, str]]:
     if data["design"].get("mirror"):
         for name, (a, b) in list(rods.items()):
             if "left" in name:
-                rods[name.replace("left", "right")] = (a.replace("left", "right"),
-                                                       b.replace("left", "right"))
+                rods[name.replace("left", "right")] = (
+                    a.replace("left", "right"),
+                    b.replace("left", "right"),
+                )
     return rods  # type: ignore[return-value]
 
 
@@ -182,8 +191,9 @@ def _signed_area_with_bulges(vertices: list[tuple[float, float, float]]) -> floa
     return total
 
 
-def _flatten(vertices: list[tuple[float, float, float]],
-             sagitta: float) -> list[tuple[float, float]]:
+def _flatten(
+    vertices: list[tuple[float, float, float]], sagitta: float
+) -> list[tuple[float, float]]:
     """Points around a closed polyline with bulges, arcs split by ezdxf's own
     ConstructionArc (every point on its circle, chords at most ``sagitta`` inside)."""
     out: list[tuple[float, float]] = []
@@ -203,11 +213,15 @@ def _flatten(vertices: list[tuple[float, float, float]],
 def test_files_read_back_clean_in_mm(exported):
     version, out = exported
     for name, (analysis, paths, folder) in out.items():
-        stem = {"splitter": "hillclimb_splitter", "undertray": "planar_undertray",
-                "tilted": "tilted_plate"}[name]
+        stem = {
+            "splitter": "hillclimb_splitter",
+            "undertray": "planar_undertray",
+            "tilted": "tilted_plate",
+        }[name]
         plates = sorted(rocker_outlines(analysis.design))
         assert sorted(p.name for p in folder.iterdir()) == sorted(
-            [f"{stem}-route.dxf"] + [f"{stem}-plate-{r}.dxf" for r in plates])  # no temp files
+            [f"{stem}-route.dxf"] + [f"{stem}-plate-{r}.dxf" for r in plates]
+        )  # no temp files
         for path in paths:
             doc = _read(path)
             assert doc.dxfversion == VERSIONS[version]
@@ -258,13 +272,17 @@ def test_route_rods_are_lines_between_the_file_hardpoints(exported, analyses, na
     guides = set(analysis.routes.guides)
     assert counts[("LINE", "ROUTE_RODS")] == len(rods) - len(guides)
     assert counts[("LINE", "GUIDE_RODS")] == len(guides)
-    lines = [e for e in doc.modelspace().query("LINE")
-             if e.dxf.layer in ("ROUTE_RODS", "GUIDE_RODS")]
+    lines = [
+        e for e in doc.modelspace().query("LINE") if e.dxf.layer in ("ROUTE_RODS", "GUIDE_RODS")
+    ]
     for rod, (a, b) in rods.items():
         pa, pb = np.array(points[a]), np.array(points[b])
-        hits = [e for e in lines
-                if np.max(np.abs(np.array(e.dxf.start) - pa)) <= 1e-9
-                and np.max(np.abs(np.array(e.dxf.end) - pb)) <= 1e-9]
+        hits = [
+            e
+            for e in lines
+            if np.max(np.abs(np.array(e.dxf.start) - pa)) <= 1e-9
+            and np.max(np.abs(np.array(e.dxf.end) - pb)) <= 1e-9
+        ]
         assert len(hits) == 1, rod
         assert hits[0].dxf.layer == ("GUIDE_RODS" if rod in guides else "ROUTE_RODS")
 
@@ -289,13 +307,16 @@ def test_route_hardpoints_tyres_and_suspension(exported, analyses, name):
     assert len(tyres) == 2 * len(design.corners)
     for corner in design.corners:
         centre = np.array(corner.wheel_centre_mm)
-        mine = [c for c in tyres if abs(c.dxf.radius - corner.tyre_radius_mm) <= 1e-12
-                and np.linalg.norm(np.array(c.ocs().to_wcs(c.dxf.center)) - centre)
-                <= corner.tyre_width_mm / 2.0 + 1e-9]
+        mine = [
+            c
+            for c in tyres
+            if abs(c.dxf.radius - corner.tyre_radius_mm) <= 1e-12
+            and np.linalg.norm(np.array(c.ocs().to_wcs(c.dxf.center)) - centre)
+            <= corner.tyre_width_mm / 2.0 + 1e-9
+        ]
         assert len(mine) == 2, corner.name
         ends = [np.array(c.ocs().to_wcs(c.dxf.center)) for c in mine]
-        assert np.linalg.norm(ends[0] - ends[1]) == pytest.approx(corner.tyre_width_mm,
-                                                                  abs=1e-9)
+        assert np.linalg.norm(ends[0] - ends[1]) == pytest.approx(corner.tyre_width_mm, abs=1e-9)
         assert np.max(np.abs((ends[0] + ends[1]) / 2.0 - wheels[corner.name])) <= 1e-9
         axis = (ends[1] - ends[0]) / np.linalg.norm(ends[1] - ends[0])
         for c in mine:
@@ -306,8 +327,7 @@ def test_route_hardpoints_tyres_and_suspension(exported, analyses, name):
     assert counts[("LINE", "ROCKER_AXES")] == len(design.rockers)
     assert ("MTEXT", "TITLE") in counts
     title = " ".join(m.plain_text() for m in msp.query("MTEXT"))
-    for phrase in ("units: mm", design.name, "ISO 8855", "x forward, y left, z up",
-                   "plumbrod"):
+    for phrase in ("units: mm", design.name, "ISO 8855", "x forward, y left, z up", "plumbrod"):
         assert phrase in title
 
 
@@ -324,16 +344,21 @@ def test_route_zones_are_the_design_solids(exported):
     box = data["radiator"]
     rotation = Rotation.from_euler("xyz", box["rotation_deg"], degrees=True).as_matrix()
     half = np.array(box["size_mm"]) / 2.0
-    corners = {tuple(np.round(np.array(box["centre_mm"]) + rotation @ (half * s), 9))
-               for s in np.array(np.meshgrid([-1, 1], [-1, 1], [-1, 1])).T.reshape(-1, 3)}
+    corners = {
+        tuple(np.round(np.array(box["centre_mm"]) + rotation @ (half * s), 9))
+        for s in np.array(np.meshgrid([-1, 1], [-1, 1], [-1, 1])).T.reshape(-1, 3)
+    }
     drawn = set()
     for poly in doc.modelspace().query("POLYLINE"):
         if poly.dxf.layer == "ZONES" and poly.is_closed:
             drawn |= {tuple(np.round(np.array(v), 9)) for v in poly.points()}
     assert corners <= drawn
     cyl = data["steering_rack"]
-    ends = {tuple(c.ocs().to_wcs(c.dxf.center)) for c in doc.modelspace().query("CIRCLE")
-            if c.dxf.layer == "ZONES"}
+    ends = {
+        tuple(c.ocs().to_wcs(c.dxf.center))
+        for c in doc.modelspace().query("CIRCLE")
+        if c.dxf.layer == "ZONES"
+    }
     assert ends == {tuple(map(float, p)) for p in cyl["axis_mm"]}
 
 
@@ -355,8 +380,11 @@ def test_tilted_plate_lies_in_its_plane_in_3d(exported):
         assert np.max(np.abs((wcs - outline.origin) @ normal)) <= 1e-9
         for hole in outline.holes:
             centre = outline.origin + hole.centre_uv[0] * outline.u + hole.centre_uv[1] * outline.v
-            found = [c for c in holes
-                     if np.linalg.norm(np.array(c.ocs().to_wcs(c.dxf.center)) - centre) <= 1e-9]
+            found = [
+                c
+                for c in holes
+                if np.linalg.norm(np.array(c.ocs().to_wcs(c.dxf.center)) - centre) <= 1e-9
+            ]
             assert len(found) == 1
             assert found[0].dxf.radius == pytest.approx(hole.diameter_mm / 2.0, abs=1e-12)
 
@@ -394,8 +422,9 @@ def test_plate_cut_profile_and_holes(exported, name):
             assert bulge > 0
             nx, ny, _ = vertices[(k + 1) % len(vertices)]
             centre, _, _, radius = bulge_to_arc((x, y), (nx, ny), bulge)
-            match = [h for h in bosses.values()
-                     if math.dist(h.centre_uv, (centre.x, centre.y)) <= 1e-9]
+            match = [
+                h for h in bosses.values() if math.dist(h.centre_uv, (centre.x, centre.y)) <= 1e-9
+            ]
             assert len(match) == 1
             assert radius == pytest.approx(match[0].boss_radius_mm, abs=1e-9)
         assert arcs >= 2
@@ -421,8 +450,11 @@ def test_plate_cut_profile_and_holes(exported, name):
         assert {c.dxf.layer for c in circles} == {"CUT_HOLES"}
         assert len(circles) == len(outline.holes)
         for hole in outline.holes:
-            found = [c for c in circles
-                     if math.dist((c.dxf.center.x, c.dxf.center.y), hole.centre_uv) <= 1e-9]
+            found = [
+                c
+                for c in circles
+                if math.dist((c.dxf.center.x, c.dxf.center.y), hole.centre_uv) <= 1e-9
+            ]
             assert len(found) == 1
             assert found[0].dxf.radius == pytest.approx(hole.diameter_mm / 2.0, abs=1e-12)
             margin = hole.boss_radius_mm - hole.diameter_mm / 2.0
@@ -444,17 +476,18 @@ def test_undertray_plate_hole_spacing_from_the_file(exported):
     _, out = exported
     _, paths, _ = out["undertray"]
     doc = _read(next(p for p in paths if p.name.endswith("-plate-crank_rear.dxf")))
-    centres = [(c.dxf.center.x, c.dxf.center.y, c.dxf.radius)
-               for c in doc.modelspace().query("CIRCLE")]
+    centres = [
+        (c.dxf.center.x, c.dxf.center.y, c.dxf.radius) for c in doc.modelspace().query("CIRCLE")
+    ]
     by_radius = sorted(centres, key=lambda c: -c[2])
     pivot = by_radius[0]
     assert pivot[2] == 6.0  # pivot_hole_mm = 12
     others = by_radius[1:]
     assert [o[2] for o in others] == [5.0, 5.0]  # hole_mm = 10
-    assert sorted(math.dist(pivot[:2], o[:2]) for o in others) == pytest.approx([130.0] * 2,
-                                                                               abs=1e-9)
-    assert math.dist(others[0][:2], others[1][:2]) == pytest.approx(130.0 * math.sqrt(2),
-                                                                    abs=1e-9)
+    assert sorted(math.dist(pivot[:2], o[:2]) for o in others) == pytest.approx(
+        [130.0] * 2, abs=1e-9
+    )
+    assert math.dist(others[0][:2], others[1][:2]) == pytest.approx(130.0 * math.sqrt(2), abs=1e-9)
 
 
 def test_bad_version_is_a_usage_error(analyses):
@@ -502,16 +535,25 @@ def _env(seed: str = "0") -> dict[str, str]:
 
 
 def _export(cwd: Path, *args: str, seed: str = "0") -> subprocess.CompletedProcess[str]:
-    return subprocess.run([sys.executable, "-m", "plumbrod", "export", *args],
-                          capture_output=True, text=True, env=_env(seed), cwd=cwd, timeout=180,
-                          check=False)
+    return subprocess.run(
+        [sys.executable, "-m", "plumbrod", "export", *args],
+        capture_output=True,
+        text=True,
+        env=_env(seed),
+        cwd=cwd,
+        timeout=180,
+        check=False,
+    )
 
 
 def test_command_writes_the_files(tmp_path):
     first = _export(tmp_path, str(UNDERTRAY), "--png", seed="1")
     assert first.returncode == 0, first.stderr
-    names = ["planar_undertray-route", "planar_undertray-plate-crank_rear",
-             "planar_undertray-plate-crank_front"]
+    names = [
+        "planar_undertray-route",
+        "planar_undertray-plate-crank_rear",
+        "planar_undertray-plate-crank_front",
+    ]
     for name in names:
         for suffix in (".dxf", ".png"):
             path = tmp_path / "exports" / f"{name}{suffix}"
@@ -522,8 +564,9 @@ def test_command_writes_the_files(tmp_path):
     second = _export(tmp_path, str(UNDERTRAY), "--output-dir", "again", seed="2")
     assert second.returncode == 0, second.stderr
     for name in names:
-        assert (tmp_path / "again" / f"{name}.dxf").read_bytes() == \
-            (tmp_path / "exports" / f"{name}.dxf").read_bytes()
+        assert (tmp_path / "again" / f"{name}.dxf").read_bytes() == (
+            tmp_path / "exports" / f"{name}.dxf"
+        ).read_bytes()
 
 
 def test_command_r2000(tmp_path):
@@ -538,11 +581,13 @@ def test_command_bad_input_writes_nothing(tmp_path, case):
     if case == "missing":
         args = [str(tmp_path / "nope.toml")]
     elif case == "bad_design":
-        text = replace_once(UNDERTRAY.read_text(encoding="utf-8"),
-                            "thickness_mm = 6.0\nmaterial = \"7075-T6\"\npivot_hole_mm = 12.0\n"
-                            "hole_mm = 10.0\nedge_margin_mm = 8.0\n\n[rockers.crank_rear.pickups]",
-                            "thickness_mm = -6.0\nmaterial = \"7075-T6\"\npivot_hole_mm = 12.0\n"
-                            "hole_mm = 10.0\nedge_margin_mm = 8.0\n\n[rockers.crank_rear.pickups]")
+        text = replace_once(
+            UNDERTRAY.read_text(encoding="utf-8"),
+            'thickness_mm = 6.0\nmaterial = "7075-T6"\npivot_hole_mm = 12.0\n'
+            "hole_mm = 10.0\nedge_margin_mm = 8.0\n\n[rockers.crank_rear.pickups]",
+            'thickness_mm = -6.0\nmaterial = "7075-T6"\npivot_hole_mm = 12.0\n'
+            "hole_mm = 10.0\nedge_margin_mm = 8.0\n\n[rockers.crank_rear.pickups]",
+        )
         bad = tmp_path / "bad.toml"
         bad.write_text(text, encoding="utf-8")
         args = [str(bad)]

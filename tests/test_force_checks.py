@@ -30,27 +30,32 @@ from plumbrod.verdict.checks import (
 )
 
 W_N = 1000.0
-VERTICAL_ONLY = {"hand": {"speed_kmh": 0.0, "bump_g": -1.0,
-                          "forces_N": {"wing": (0.0, 0.0, -W_N)}}}
+VERTICAL_ONLY = {"hand": {"speed_kmh": 0.0, "bump_g": -1.0, "forces_N": {"wing": (0.0, 0.0, -W_N)}}}
 """1000 N straight down at the wing's centre of pressure; 1 + bump_g = 0 takes the
 weights out (DESIGN §6), so the hand solution holds exactly."""
 
 
-def _lever(b_mm: float = 100.0, *, rated: tuple[str, float] | None = None,
-           limits: str = "") -> Analysis:
+def _lever(
+    b_mm: float = 100.0, *, rated: tuple[str, float] | None = None, limits: str = ""
+) -> Analysis:
     """The side-view lever route (drive arm a = 80 mm, hanger arm ``b_mm``) at the design
     pose, ±0.001 mm of travel around it, under :data:`VERTICAL_ONLY`.
 
     Hand solution (common practice, no source; derived in test_statics.py): drive rod
     −W·b/a, hanger +W, heave leakage W·(b/a − 1), i.e. a share b/a − 1 of the load.
     """
-    chain = SideChain(rocker_hanger=(b_mm, 580.0), element_hanger=(b_mm, 200.0),
-                      travel_mm=(-1e-3, 1e-3), travel_steps=3)
+    chain = SideChain(
+        rocker_hanger=(b_mm, 580.0),
+        element_hanger=(b_mm, 200.0),
+        travel_mm=(-1e-3, 1e-3),
+        travel_steps=3,
+    )
     text = side_chain_text(chain, body_sweeps=False)
     if rated is not None:
         rod, rating = rated
-        text = replace_once(text, f"[rods.{rod}]\n",
-                            f"[rods.{rod}]\nrod_end_rating_N = {rating!r}\n")
+        text = replace_once(
+            text, f"[rods.{rod}]\n", f"[rods.{rod}]\nrod_end_rating_N = {rating!r}\n"
+        )
     text += load_cases_text(VERTICAL_ONLY)
     if limits:
         text += f"\n[limits]\n{limits}\n"
@@ -61,15 +66,19 @@ def _lever(b_mm: float = 100.0, *, rated: tuple[str, float] | None = None,
 # --- member-force -------------------------------------------------------------------------
 
 
-@pytest.mark.parametrize(("rod", "hand_N", "rating_N", "status"), [
-    ("drive", -1250.0, 2500.0, "pass"),  # 50 % of the rating
-    ("drive", -1250.0, 1500.0, "warn"),  # 83 %: above the warning fraction
-    ("drive", -1250.0, 1200.0, "fail"),  # 104 %
-    ("hanger", 1000.0, 1300.0, "pass"),  # 77 %
-    ("hanger", 1000.0, 990.0, "fail"),  # 101 %
-])
-def test_member_force_fails_above_the_rod_end_rating(rod: str, hand_N: float,
-                                                     rating_N: float, status: str) -> None:
+@pytest.mark.parametrize(
+    ("rod", "hand_N", "rating_N", "status"),
+    [
+        ("drive", -1250.0, 2500.0, "pass"),  # 50 % of the rating
+        ("drive", -1250.0, 1500.0, "warn"),  # 83 %: above the warning fraction
+        ("drive", -1250.0, 1200.0, "fail"),  # 104 %
+        ("hanger", 1000.0, 1300.0, "pass"),  # 77 %
+        ("hanger", 1000.0, 990.0, "fail"),  # 101 %
+    ],
+)
+def test_member_force_fails_above_the_rod_end_rating(
+    rod: str, hand_N: float, rating_N: float, status: str
+) -> None:
     # Hand solution of the lever (common practice, no source): drive rod −W·b/a =
     # −1250 N (compression), hanger +W = +1000 N. A rod end is overloaded when the
     # force's magnitude exceeds its rated load (common practice, no source).
@@ -98,15 +107,17 @@ def test_member_force_without_a_rating_reports_the_largest_force() -> None:
 # --- sprung-leakage ------------------------------------------------------------------------
 
 
-@pytest.mark.parametrize(("b_mm", "limits", "status"), [
-    (100.0, "", "fail"),  # share 0.25 against the default 0.05
-    (100.0, "sprung_leakage = 0.3", "warn"),  # 83 % of the limit
-    (100.0, "sprung_leakage = 0.5", "pass"),
-    (120.0, "sprung_leakage = 0.4", "fail"),  # share 0.5
-    (80.0, "", "pass"),  # equal arms: R = 1, nothing leaks
-])
-def test_sprung_leakage_against_the_hand_share(b_mm: float, limits: str,
-                                               status: str) -> None:
+@pytest.mark.parametrize(
+    ("b_mm", "limits", "status"),
+    [
+        (100.0, "", "fail"),  # share 0.25 against the default 0.05
+        (100.0, "sprung_leakage = 0.3", "warn"),  # 83 % of the limit
+        (100.0, "sprung_leakage = 0.5", "pass"),
+        (120.0, "sprung_leakage = 0.4", "fail"),  # share 0.5
+        (80.0, "", "pass"),  # equal arms: R = 1, nothing leaks
+    ],
+)
+def test_sprung_leakage_against_the_hand_share(b_mm: float, limits: str, status: str) -> None:
     # Hand solution (common practice, no source; derived in test_statics.py): the lever
     # pivot passes W·(b/a − 1) into the chassis, a share |b/a − 1| of the load; by
     # virtual work the same share is |1 − R| with route ratio R = b/a.
@@ -119,10 +130,13 @@ def test_sprung_leakage_against_the_hand_share(b_mm: float, limits: str,
     assert "agree within" in check.detail  # direct and virtual work agree
 
 
-@pytest.mark.parametrize(("stem", "status"), [
-    ("failing_short_lever", "fail"),
-    ("hillclimb_splitter", "pass"),
-])
+@pytest.mark.parametrize(
+    ("stem", "status"),
+    [
+        ("failing_short_lever", "fail"),
+        ("hillclimb_splitter", "pass"),
+    ],
+)
 def test_sprung_leakage_on_the_examples(stem: str, status: str) -> None:
     # The short rocker arm moves the splitter about 80 % of the wheel travel, so about
     # a fifth of the load leaks (|1 − R| by virtual work, common practice, no source);
@@ -148,10 +162,10 @@ def test_sprung_leakage_on_the_examples(stem: str, status: str) -> None:
 
 
 def _splayed(splay_deg: float, limits: str = "") -> Analysis:
-    cases = {"hand": {"speed_kmh": 0.0, "bump_g": -1.0,
-                      "forces_N": {"wing": (0.0, 0.0, -2000.0)}}}
-    design, _ = parse(splayed_struts_text(splay_deg, limits=limits) + load_cases_text(cases),
-                      "splayed struts")
+    cases = {"hand": {"speed_kmh": 0.0, "bump_g": -1.0, "forces_N": {"wing": (0.0, 0.0, -2000.0)}}}
+    design, _ = parse(
+        splayed_struts_text(splay_deg, limits=limits) + load_cases_text(cases), "splayed struts"
+    )
     return analyse(design)
 
 
@@ -167,9 +181,13 @@ def _hand_resultant(splay_deg: float, w: float = 2000.0) -> np.ndarray:
     length = math.hypot(t, 300.0)
     u_rear, u_front = np.array([t, 300.0]) / length, np.array([-t, 300.0]) / length
     x_rear, x_front, x_load = -100.0 - t, 100.0 + t, 400.0
-    a = np.array([[u_rear[0], u_front[0], 1.0],
-                  [u_rear[1], u_front[1], 0.0],
-                  [-x_rear * u_rear[1], -x_front * u_front[1], 0.0]])
+    a = np.array(
+        [
+            [u_rear[0], u_front[0], 1.0],
+            [u_rear[1], u_front[1], 0.0],
+            [-x_rear * u_rear[1], -x_front * u_front[1], 0.0],
+        ]
+    )
     rhs = np.array([0.0, w, -x_load * w])  # ΣF_x, ΣF_z and ΣM of the rods = −(the load's)
     t_rear, t_front, _ = np.linalg.solve(a, rhs)
     return -(t_rear * u_rear + t_front * u_front)  # tension pulls the upright down
@@ -198,8 +216,9 @@ def test_line_of_action_includes_the_resultant_on_the_upright() -> None:
     (force,) = st.corner_force_N.values()
     np.testing.assert_allclose(force[1, 0, [0, 2]], hand, rtol=0.0, atol=1e-9 * 2000.0)
     assert force[1, 0, 1] == 0.0
-    np.testing.assert_allclose(sum(st.upright_force_N.values())[1, 0], force[1, 0],
-                               rtol=0.0, atol=1e-9 * 2000.0)
+    np.testing.assert_allclose(
+        sum(st.upright_force_N.values())[1, 0], force[1, 0], rtol=0.0, atol=1e-9 * 2000.0
+    )
     rods = max(float(a.max()) for a in analysis.figures["travel"].line_of_action_deg.values())
     assert rods == pytest.approx(2.0, abs=0.05)  # every rod alone is within 3°
     check = check_line_of_action(analysis)

@@ -79,8 +79,9 @@ def test_lengths_and_pivot_distances_hold_at_every_pose_of_every_sweep(name: str
         pivots = pivot_distance_errors(design, link, points)
         bodies = rigid_distance_errors(design, link, points)
         assert len(rods) >= len(design.rods) >= 4
-        assert len(pivots) >= 2 * sum(p.body in {r.name for r in design.rockers}
-                                      for p in design.pickups.values())
+        assert len(pivots) >= 2 * sum(
+            p.body in {r.name for r in design.rockers} for p in design.pickups.values()
+        )
         for group in (rods, pivots, bodies):
             for item, err in group.items():
                 assert err.max() <= LENGTH_TOL_MM, f"{name} {sweep} {item}: {err.max():.2e} mm"
@@ -184,8 +185,7 @@ def test_norton_example_4_1_found_by_root_finding_over_the_travel(scale: float) 
 # --- route ratio against a sympy derivation ----------------------------------------------
 
 
-def _circle_meet(c1: sp.Matrix, r1: sp.Expr, c2: sp.Matrix, r2: sp.Expr,
-                 sign: int) -> sp.Matrix:
+def _circle_meet(c1: sp.Matrix, r1: sp.Expr, c2: sp.Matrix, r2: sp.Expr, sign: int) -> sp.Matrix:
     """One intersection of two circles in the plane (the textbook construction)."""
     d = c2 - c1
     dist2 = d.dot(d)
@@ -196,8 +196,9 @@ def _circle_meet(c1: sp.Matrix, r1: sp.Expr, c2: sp.Matrix, r2: sp.Expr,
     return c1 + along * unit + sign * height * sp.Matrix([-unit[1], unit[0]])
 
 
-def _design_root(c1: sp.Matrix, r1: sp.Expr, c2: sp.Matrix, r2: sp.Expr,
-                 at_design: sp.Matrix, s: sp.Symbol) -> sp.Matrix:
+def _design_root(
+    c1: sp.Matrix, r1: sp.Expr, c2: sp.Matrix, r2: sp.Expr, at_design: sp.Matrix, s: sp.Symbol
+) -> sp.Matrix:
     """The intersection that passes through ``at_design`` at s = 0 (the assembly branch)."""
     roots = [_circle_meet(c1, r1, c2, r2, sign) for sign in (1, -1)]
     miss = [float((r.subs(s, 0) - at_design).norm()) for r in roots]
@@ -214,6 +215,7 @@ def _side_chain_pickup_height(chain: SideChain, s: sp.Symbol) -> sp.Expr:
     length, so the element only translates, by t, with t on the circle of the upper
     guide and E0 + t on the circle of the hanger about H.
     """
+
     def v(p: tuple[float, float]) -> sp.Matrix:
         return sp.Matrix([sp.nsimplify(p[0]), sp.nsimplify(p[1])])
 
@@ -276,8 +278,9 @@ def test_route_ratio_matches_scipy_derivative_on_the_example() -> None:
         moved = link.corner_names.index(route.corner)
         index = link.point(route.pickup)
 
-        def pickup_z(x: np.ndarray, held: np.ndarray, moved: int = moved,
-                     index: int = index) -> np.ndarray:
+        def pickup_z(
+            x: np.ndarray, held: np.ndarray, moved: int = moved, index: int = index
+        ) -> np.ndarray:
             held = np.broadcast_to(held, np.shape(x)).ravel()
             params = np.repeat(held[:, None], nc, axis=1)  # the other wheels held
             params[:, moved] = np.ravel(x)  # this route's wheel moves
@@ -294,7 +297,10 @@ def test_route_ratio_matches_scipy_derivative_on_the_example() -> None:
 
 
 def _bolted_height_and_sensitivity(
-    point: np.ndarray, centre: np.ndarray, heave_mm: np.ndarray, roll_deg: np.ndarray,
+    point: np.ndarray,
+    centre: np.ndarray,
+    heave_mm: np.ndarray,
+    roll_deg: np.ndarray,
     pitch_deg: np.ndarray,
 ) -> tuple[np.ndarray, dict[str, np.ndarray]]:
     """Height above the ground of a chassis point, and its derivatives per mm / per deg.
@@ -312,8 +318,10 @@ def _bolted_height_and_sensitivity(
     sens = {
         "heave": np.ones_like(heave_mm),
         "roll": np.cos(pitch) * (q[1] * np.cos(roll) - q[2] * np.sin(roll)) * per_deg,
-        "pitch": (-q[0] * np.cos(pitch)
-                  - np.sin(pitch) * (q[1] * np.sin(roll) + q[2] * np.cos(roll))) * per_deg,
+        "pitch": (
+            -q[0] * np.cos(pitch) - np.sin(pitch) * (q[1] * np.sin(roll) + q[2] * np.cos(roll))
+        )
+        * per_deg,
     }
     return height, sens
 
@@ -325,29 +333,35 @@ POSES = (  # heave mm, roll deg, pitch deg: never all zero in a column, so every
 )
 
 
-@pytest.mark.parametrize("cop", [(600.0, 250.0, 70.0), (450.0, -380.0, 140.0),
-                                 (-150.0, 520.0, 0.0)])
+@pytest.mark.parametrize(
+    "cop", [(600.0, 250.0, 70.0), (450.0, -380.0, 140.0), (-150.0, 520.0, 0.0)]
+)
 @pytest.mark.parametrize("centre", [(0.0, 0.0, 0.0), (300.0, 0.0, 280.0)])
 def test_bolted_sensitivity_against_plane_geometry(
-    cop: tuple[float, float, float], centre: tuple[float, float, float],
+    cop: tuple[float, float, float],
+    centre: tuple[float, float, float],
 ) -> None:
     # The bolted figure of the example's splitter, with its centre of pressure moved to a
     # point off the centre plane (y != 0), at poses mixing heave, roll and pitch.
-    text = replace_once(EXAMPLE.read_text(encoding="utf-8"),
-                        "centre_of_pressure_mm = [600.0, 0.0, 70.0]",
-                        f"centre_of_pressure_mm = {list(cop)}")
+    text = replace_once(
+        EXAMPLE.read_text(encoding="utf-8"),
+        "centre_of_pressure_mm = [600.0, 0.0, 70.0]",
+        f"centre_of_pressure_mm = {list(cop)}",
+    )
     _, link = parse(text, "example, moved centre of pressure")
     heave, roll, pitch = POSES
     result = body_sweep(link, heave, roll, pitch, centre)
     figure = ride_heights(link, result)["splitter"]
-    height, sens = _bolted_height_and_sensitivity(np.array(cop), np.array(centre),
-                                                  heave, roll, pitch)
+    height, sens = _bolted_height_and_sensitivity(
+        np.array(cop), np.array(centre), heave, roll, pitch
+    )
     np.testing.assert_allclose(figure.bolted_height_mm, height, rtol=0.0, atol=1e-9)
     # heave: exactly 1 mm per mm (common practice, no source)
     np.testing.assert_array_equal(figure.bolted_sensitivity["heave"], 1.0)
     for name in ("roll", "pitch"):
-        np.testing.assert_allclose(figure.bolted_sensitivity[name], sens[name],
-                                   rtol=0.0, atol=1e-12)
+        np.testing.assert_allclose(
+            figure.bolted_sensitivity[name], sens[name], rtol=0.0, atol=1e-12
+        )
     if centre == (0.0, 0.0, 0.0):
         # at the design pose, roll raises a chassis point by |y|·π/180 mm per degree, on
         # the left (y > 0) for + roll (ISO 8855) — common practice, no source
@@ -368,8 +382,9 @@ def test_element_held_by_the_chassis_alone_matches_the_bolted_formula(
     design, _ = parse(front_chain_text(FrontChain(cop, hanger_on_pivot=True)), "front pivot")
     analysis = analyse(design)
     assert analysis.mobility.exact
-    np.testing.assert_allclose(analysis.figures["travel"].route_ratio["wing.hanger"], 0.0,
-                               rtol=0.0, atol=1e-12)
+    np.testing.assert_allclose(
+        analysis.figures["travel"].route_ratio["wing.hanger"], 0.0, rtol=0.0, atol=1e-12
+    )
     point = np.array([0.0, *cop])
     checked = 0
     for sweep in ("heave", "roll", "heave_roll"):
@@ -377,13 +392,15 @@ def test_element_held_by_the_chassis_alone_matches_the_bolted_formula(
         figure = analysis.figures[sweep].ride_height["wing"]
         params = result.spec.drive.parameters
         height, sens = _bolted_height_and_sensitivity(
-            point, np.zeros(3), params[:, 0], np.degrees(params[:, 1]), np.degrees(params[:, 2]))
+            point, np.zeros(3), params[:, 0], np.degrees(params[:, 1]), np.degrees(params[:, 2])
+        )
         np.testing.assert_allclose(figure.height_mm, height, rtol=0.0, atol=1e-9)
         np.testing.assert_allclose(figure.bolted_height_mm, height, rtol=0.0, atol=1e-9)
         for name, values in figure.sensitivity.items():
             np.testing.assert_allclose(values, sens[name], rtol=0.0, atol=1e-9)
-            np.testing.assert_allclose(figure.bolted_sensitivity[name], sens[name],
-                                       rtol=0.0, atol=1e-12)
+            np.testing.assert_allclose(
+                figure.bolted_sensitivity[name], sens[name], rtol=0.0, atol=1e-12
+            )
             checked += values.size
     assert checked == 21 + 21 + 2 * 25
 
@@ -393,10 +410,14 @@ def test_example_with_both_routes_on_the_rocker_axes_rides_as_if_bolted() -> Non
     # then held by the chassis alone, and its real figures must equal the bolted ones in
     # heave, roll and pitch (plane geometry: common practice, no source).
     text = EXAMPLE.read_text(encoding="utf-8")
-    text = replace_once(text, "front_arm = [600.0, 620.0, 250.0]",
-                        "front_arm = [600.0, 300.0, 250.0]")
-    text = replace_once(text, "centre_of_pressure_mm = [600.0, 0.0, 70.0]",
-                        "centre_of_pressure_mm = [600.0, 240.0, 70.0]")
+    text = replace_once(
+        text, "front_arm = [600.0, 620.0, 250.0]", "front_arm = [600.0, 300.0, 250.0]"
+    )
+    text = replace_once(
+        text,
+        "centre_of_pressure_mm = [600.0, 0.0, 70.0]",
+        "centre_of_pressure_mm = [600.0, 240.0, 70.0]",
+    )
     design, _ = parse(text, "example, hangers on the rocker axes")
     analysis = analyse(design)
     assert analysis.mobility.exact
@@ -428,8 +449,9 @@ def test_crank_passing_the_outputs_limit_position_stays_on_the_open_branch() -> 
     t2, t3, t4 = _four_bar_angles(bar, link, solved.kin.points)
     k1, k2, k3 = freudenstein_constants(bar.a, bar.b, bar.c, bar.d)
     r2, r4 = np.radians(t2), np.radians(t4)
-    np.testing.assert_allclose(k1 * np.cos(r4) - k2 * np.cos(r2) + k3, np.cos(r2 - r4),
-                               rtol=0.0, atol=1e-9)
+    np.testing.assert_allclose(
+        k1 * np.cos(r4) - k2 * np.cos(r2) + k3, np.cos(r2 - r4), rtol=0.0, atol=1e-9
+    )
     open4 = np.array([bar.open_theta4_deg(float(v)) for v in t2])
     np.testing.assert_allclose(t4, open4, rtol=0.0, atol=1e-7)
     # the crank and coupler line up inside the travel: the output angle turns back there

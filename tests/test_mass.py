@@ -103,7 +103,8 @@ def test_two_corner_heave_equivalent_mass_is_half_the_moving_mass(rods: RodSpec)
 @pytest.mark.parametrize("inertia", [None, "given"], ids=["estimated", "given"])
 @pytest.mark.parametrize("rods", RODS.values(), ids=RODS.keys())
 def test_single_wheel_equivalent_mass_of_a_uniform_bar_is_a_third(
-        rods: RodSpec, inertia: str | None) -> None:
+    rods: RodSpec, inertia: str | None
+) -> None:
     # One wheel rises, the other stays: the element, a uniform slender bar of length
     # 2d = 1 m hung at its ends, turns about its far end.
     # source: uniform slender rod about one end, I = mL²/3, so m_eq at the moving end =
@@ -115,8 +116,7 @@ def test_single_wheel_equivalent_mass_of_a_uniform_bar_is_a_third(
     m, span_m = 10.0, 1.0
     i_cg = m * span_m**2 / 12.0
     given = (i_cg, 0.0, i_cg) if inertia == "given" else None
-    pair = FrontPair(element_mass_kg=m, rods=rods, inertia_kg_m2=given,
-                     half_span_mm=500.0)
+    pair = FrontPair(element_mass_kg=m, rods=rods, inertia_kg_m2=given, half_span_mm=500.0)
     report = _mass(front_pair_text(pair))
     m_h, m_g = _pair_rod_masses(pair)
     # rods: the rising side's hanger translates at 1; the other hanger does not move;
@@ -126,13 +126,15 @@ def test_single_wheel_equivalent_mass_of_a_uniform_bar_is_a_third(
     for corner in report.corners:
         assert corner.kinetic_single_kg == pytest.approx(expected, rel=1e-9), (
             f"{corner.corner}: expected m/3 + rods = {expected:.6f} kg, got "
-            f"{corner.kinetic_single_kg:.6f} kg")
+            f"{corner.kinetic_single_kg:.6f} kg"
+        )
 
 
 @pytest.mark.parametrize("ratio", [None, 0.8, 1.25], ids=["direct", "lever-0.8", "lever-1.25"])
 @pytest.mark.parametrize("rods", RODS.values(), ids=RODS.keys())
 def test_hung_point_mass_equivalent_mass_scales_with_ratio_squared(
-        rods: RodSpec, ratio: float | None) -> None:
+    rods: RodSpec, ratio: float | None
+) -> None:
     # source: equivalent mass of a mass on a lever of ratio r, referred to the input:
     # m·r² (Rao, Mechanical Vibrations, equivalent mass, from memory); hung directly,
     # r = 1 and the figure is the mass itself.  The static share goes with r, not r²

@@ -13,10 +13,18 @@ SRC = Path(__file__).resolve().parents[1] / "src"
 
 def _run(*args: str, cwd: Path) -> subprocess.CompletedProcess[str]:
     # run from another folder: make sure this checkout's plumbrod is the one imported
-    env = {**os.environ, "PYTHONPATH": os.pathsep.join(
-        p for p in (str(SRC), os.environ.get("PYTHONPATH", "")) if p)}
-    return subprocess.run([sys.executable, "-m", "plumbrod", *args], capture_output=True,
-                          text=True, check=False, cwd=cwd, env=env)
+    env = {
+        **os.environ,
+        "PYTHONPATH": os.pathsep.join(p for p in (str(SRC), os.environ.get("PYTHONPATH", "")) if p),
+    }
+    return subprocess.run(
+        [sys.executable, "-m", "plumbrod", *args],
+        capture_output=True,
+        text=True,
+        check=False,
+        cwd=cwd,
+        env=env,
+    )
 
 
 def test_the_starter_design_passes_its_checks(tmp_path: Path) -> None:
@@ -29,9 +37,18 @@ def test_the_starter_design_passes_its_checks(tmp_path: Path) -> None:
     report = json.loads(checked.stdout)
     assert report["verdict"] in ("pass", "warn")
     ids = {c["id"] for c in report["checks"]}
-    assert {"route-ratio", "line-of-action", "transmission-angle", "ride-height-sensitivity",
-            "member-force", "sprung-leakage", "buckling", "tension", "compliance",
-            "clearance"} <= ids
+    assert {
+        "route-ratio",
+        "line-of-action",
+        "transmission-angle",
+        "ride-height-sensitivity",
+        "member-force",
+        "sprung-leakage",
+        "buckling",
+        "tension",
+        "compliance",
+        "clearance",
+    } <= ids
 
 
 def test_new_refuses_to_overwrite_without_force(tmp_path: Path) -> None:

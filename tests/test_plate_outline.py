@@ -16,9 +16,14 @@ from plumbrod.geometry.shapes import Box, GeometryError, Plate
 def _stadium(d_hole=10.0, margin=5.0, spacing=80.0, tol=0.01):
     """Pivot and one pickup of equal holes: the outline is a stadium."""
     return plate_outline(
-        [0, 0, 0], [0, 0, 10], {"push": [spacing, 0, 0]},
-        pivot_hole_mm=d_hole, pickup_hole_mm=d_hole, edge_margin_mm=margin,
-        thickness_mm=6.0, chord_tol_mm=tol,
+        [0, 0, 0],
+        [0, 0, 10],
+        {"push": [spacing, 0, 0]},
+        pivot_hole_mm=d_hole,
+        pickup_hole_mm=d_hole,
+        edge_margin_mm=margin,
+        thickness_mm=6.0,
+        chord_tol_mm=tol,
     )
 
 
@@ -69,8 +74,9 @@ def test_chord_tolerance_met():
     radial = np.min(np.linalg.norm(coords[:, None] - centres[None], axis=-1), axis=1)
     assert np.all(radial <= 10.0 + 1e-9)
     ang = np.linspace(0, 2 * np.pi, 3601)
-    arc = np.r_[np.c_[10 * np.cos(ang), 10 * np.sin(ang)],
-                np.c_[80 + 10 * np.cos(ang), 10 * np.sin(ang)]]
+    arc = np.r_[
+        np.c_[10 * np.cos(ang), 10 * np.sin(ang)], np.c_[80 + 10 * np.cos(ang), 10 * np.sin(ang)]
+    ]
     hull = shapely.convex_hull(shapely.MultiPoint(arc))
     true_boundary = np.asarray(hull.exterior.coords)
     gaps = shapely.distance(shapely.points(true_boundary), plate.outline.exterior)
@@ -81,8 +87,12 @@ def test_outline_orientation_and_holes_as_circles():
     # source: shapely's orientation predicate (shapely.is_ccw) as the reference, and
     # the shoelace formula: a counter-clockwise ring has positive signed area.
     plate = plate_outline(
-        [10, 20, 30], [10, 20, 50], {"push": [70, 20, 41], "link": [10, 95, 39]},
-        pivot_hole_mm=12, pickup_hole_mm={"push": 8, "link": 10}, edge_margin_mm=6,
+        [10, 20, 30],
+        [10, 20, 50],
+        {"push": [70, 20, 41], "link": [10, 95, 39]},
+        pivot_hole_mm=12,
+        pickup_hole_mm={"push": 8, "link": 10},
+        edge_margin_mm=6,
         thickness_mm=5,
     )
     ring = plate.outline.exterior
@@ -99,8 +109,13 @@ def test_frame_plane_and_spacers():
     # z = 41 and 39 -> plate plane z = 40, spacers +1 and -1 mm; u points at the first
     # pickup, v = normal x u.
     plate = plate_outline(
-        [10, 20, 30], [10, 20, 50], {"push": [70, 20, 41], "link": [10, 95, 39]},
-        pivot_hole_mm=12, pickup_hole_mm=8, edge_margin_mm=6, thickness_mm=5,
+        [10, 20, 30],
+        [10, 20, 50],
+        {"push": [70, 20, 41], "link": [10, 95, 39]},
+        pivot_hole_mm=12,
+        pickup_hole_mm=8,
+        edge_margin_mm=6,
+        thickness_mm=5,
     )
     np.testing.assert_allclose(plate.origin, [10, 20, 40], atol=1e-12)
     np.testing.assert_allclose(plate.normal, [0, 0, 1], atol=1e-12)
@@ -151,11 +166,25 @@ def test_plate_solid_clearance_to_a_box():
 
 def test_overlapping_holes_are_named():
     with pytest.raises(GeometryError, match=r"holes 'pivot' and 'push' apart.*overlap"):
-        plate_outline([0, 0, 0], [0, 0, 1], {"push": [10, 0, 0]}, pivot_hole_mm=12,
-                      pickup_hole_mm=8, edge_margin_mm=4, thickness_mm=5)
+        plate_outline(
+            [0, 0, 0],
+            [0, 0, 1],
+            {"push": [10, 0, 0]},
+            pivot_hole_mm=12,
+            pickup_hole_mm=8,
+            edge_margin_mm=4,
+            thickness_mm=5,
+        )
     with pytest.raises(GeometryError, match=r"holes 'push' and 'link' apart"):
-        plate_outline([0, 0, 0], [0, 0, 1], {"push": [50, 0, 0], "link": [50, 7, 0]},
-                      pivot_hole_mm=12, pickup_hole_mm=8, edge_margin_mm=4, thickness_mm=5)
+        plate_outline(
+            [0, 0, 0],
+            [0, 0, 1],
+            {"push": [50, 0, 0], "link": [50, 7, 0]},
+            pivot_hole_mm=12,
+            pickup_hole_mm=8,
+            edge_margin_mm=4,
+            thickness_mm=5,
+        )
 
 
 @pytest.mark.parametrize(
@@ -169,8 +198,15 @@ def test_overlapping_holes_are_named():
     ],
 )
 def test_bad_values_raise(kwargs, match):
-    args = {"axis_p0": [0, 0, 0], "axis_p1": [0, 0, 1], "pickups": {"push": [50, 0, 0]},
-            "pivot_hole_mm": 12, "pickup_hole_mm": 8, "edge_margin_mm": 4, "thickness_mm": 5}
+    args = {
+        "axis_p0": [0, 0, 0],
+        "axis_p1": [0, 0, 1],
+        "pickups": {"push": [50, 0, 0]},
+        "pivot_hole_mm": 12,
+        "pickup_hole_mm": 8,
+        "edge_margin_mm": 4,
+        "thickness_mm": 5,
+    }
     args.update(kwargs)
     with pytest.raises(GeometryError, match=match):
         plate_outline(args.pop("axis_p0"), args.pop("axis_p1"), args.pop("pickups"), **args)

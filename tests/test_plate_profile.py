@@ -76,8 +76,13 @@ def test_single_and_contained_circles():
 
 
 @settings(max_examples=40, deadline=None)
-@given(st.lists(st.tuples(st.floats(-200, 200), st.floats(-200, 200), st.floats(1.0, 60.0)),
-                min_size=1, max_size=7))
+@given(
+    st.lists(
+        st.tuples(st.floats(-200, 200), st.floats(-200, 200), st.floats(1.0, 60.0)),
+        min_size=1,
+        max_size=7,
+    )
+)
 def test_hull_against_shapely(circles):
     # reference library: shapely's convex hull of finely polygonised discs is inscribed
     # in the true hull, at most r·(1 − cos(π/(4q))) inside it (plane geometry).
@@ -90,17 +95,24 @@ def test_hull_against_shapely(circles):
     assert reference.area - 1e-6 <= profile.area_mm2
     assert profile.area_mm2 <= reference.area + reference.length * chord + 1e-6
     sampled = shapely.Polygon(profile.sample_uv(1e-4))
-    assert shapely.hausdorff_distance(sampled.exterior, reference.exterior,
-                                      densify=0.5) <= chord + 1e-4 + 1e-6
+    assert (
+        shapely.hausdorff_distance(sampled.exterior, reference.exterior, densify=0.5)
+        <= chord + 1e-4 + 1e-6
+    )
 
 
 def test_plate_profile_matches_its_outline():
     # reference library: the plate outline is shapely's polygon inscribed in the same
     # hull, within its chord tolerance; the exact area is a little larger.
-    outline = plate_outline([0, 0, 0], [0, 0, 1], {"input": [130.0, 0, 0],
-                                                   "output": [0, -130.0, 0]},
-                            pivot_hole_mm=12.0, pickup_hole_mm=10.0, edge_margin_mm=8.0,
-                            thickness_mm=6.0)
+    outline = plate_outline(
+        [0, 0, 0],
+        [0, 0, 1],
+        {"input": [130.0, 0, 0], "output": [0, -130.0, 0]},
+        pivot_hole_mm=12.0,
+        pickup_hole_mm=10.0,
+        edge_margin_mm=8.0,
+        thickness_mm=6.0,
+    )
     profile = plate_profile(outline)
     assert {a.hole for a in profile.arcs} == {"pivot", "input", "output"}
     gross = outline.outline.area

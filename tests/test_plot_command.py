@@ -16,8 +16,19 @@ PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"  # source: PNG specification (ISO/IEC 15948
 @pytest.mark.parametrize("example", ["hillclimb_splitter", "planar_undertray"])
 def test_plot_writes_two_readable_pngs(tmp_path: Path, example: str) -> None:
     done = subprocess.run(
-        [sys.executable, "-m", "plumbrod", "plot", str(ROOT / "examples" / f"{example}.toml"),
-         "--output-dir", str(tmp_path)], capture_output=True, text=True, check=False)
+        [
+            sys.executable,
+            "-m",
+            "plumbrod",
+            "plot",
+            str(ROOT / "examples" / f"{example}.toml"),
+            "--output-dir",
+            str(tmp_path),
+        ],
+        capture_output=True,
+        text=True,
+        check=False,
+    )
     assert done.returncode == 0, done.stderr
     for kind in ("kinematics", "forces"):
         path = tmp_path / f"{example}-{kind}.png"
@@ -31,22 +42,44 @@ def test_plot_writes_two_readable_pngs(tmp_path: Path, example: str) -> None:
 def test_plot_on_a_missing_design_exits_2_and_writes_nothing(tmp_path: Path) -> None:
     out = tmp_path / "out"
     done = subprocess.run(
-        [sys.executable, "-m", "plumbrod", "plot", str(tmp_path / "nope.toml"),
-         "--output-dir", str(out)], capture_output=True, text=True, check=False)
+        [
+            sys.executable,
+            "-m",
+            "plumbrod",
+            "plot",
+            str(tmp_path / "nope.toml"),
+            "--output-dir",
+            str(out),
+        ],
+        capture_output=True,
+        text=True,
+        check=False,
+    )
     assert done.returncode == 2
     assert done.stderr.count("\n") == 1 and "Traceback" not in done.stderr
     assert not out.exists()
 
 
 def test_demo_writes_report_table_and_figures(tmp_path: Path) -> None:
-    done = subprocess.run([sys.executable, "-m", "plumbrod", "demo", "--output-dir",
-                           str(tmp_path)], capture_output=True, text=True, check=False)
+    done = subprocess.run(
+        [sys.executable, "-m", "plumbrod", "demo", "--output-dir", str(tmp_path)],
+        capture_output=True,
+        text=True,
+        check=False,
+    )
     assert done.returncode == 0, done.stderr
     names = {p.name for p in tmp_path.iterdir()}
     stem = "hillclimb_splitter"
-    assert {f"{stem}.toml", f"{stem}-report.txt", f"{stem}-report.json", f"{stem}-sweep.csv",
-            f"{stem}-kinematics.png", f"{stem}-forces.png"} <= names
+    assert {
+        f"{stem}.toml",
+        f"{stem}-report.txt",
+        f"{stem}-report.json",
+        f"{stem}-sweep.csv",
+        f"{stem}-kinematics.png",
+        f"{stem}-forces.png",
+    } <= names
     assert "verdict: PASS" in done.stdout
     # the bundled example is the file in examples/, byte for byte
-    assert (tmp_path / f"{stem}.toml").read_bytes() == \
-        (ROOT / "examples" / f"{stem}.toml").read_bytes()
+    assert (tmp_path / f"{stem}.toml").read_bytes() == (
+        ROOT / "examples" / f"{stem}.toml"
+    ).read_bytes()

@@ -51,12 +51,15 @@ def side_chains(draw: st.DrawFn) -> SideChain:
     hanger_back = draw(st.booleans())
     hanger_angle = draw(size(-25.0, 25.0)) + (180.0 if hanger_back else 0.0)
     rocker_hanger = _polar(pivot, draw(size(60.0, 120.0)), hanger_angle)
-    element_hanger = _polar(rocker_hanger, draw(size(200.0, 400.0)),
-                            -90.0 + draw(size(-15.0, 15.0)))
+    element_hanger = _polar(
+        rocker_hanger, draw(size(200.0, 400.0)), -90.0 + draw(size(-15.0, 15.0))
+    )
     # two guides forward to the chassis, within 8° of horizontal and 3° of each other,
     # at different heights
-    upper = (element_hanger[0] + draw(size(50.0, 250.0)),
-             element_hanger[1] + draw(size(-30.0, 60.0)))
+    upper = (
+        element_hanger[0] + draw(size(50.0, 250.0)),
+        element_hanger[1] + draw(size(-30.0, 60.0)),
+    )
     lower = (upper[0] + draw(size(-40.0, 40.0)), upper[1] - draw(size(60.0, 150.0)))
     guide_tilt = draw(size(-8.0, 8.0))
     guide_length = draw(size(250.0, 400.0))
@@ -70,8 +73,9 @@ def side_chains(draw: st.DrawFn) -> SideChain:
         element_guide_upper=upper,
         chassis_guide_upper=_polar(upper, guide_length, guide_tilt),
         element_guide_lower=lower,
-        chassis_guide_lower=_polar(lower, guide_length + draw(size(-30.0, 30.0)),
-                                   guide_tilt + draw(size(-3.0, 3.0))),
+        chassis_guide_lower=_polar(
+            lower, guide_length + draw(size(-30.0, 30.0)), guide_tilt + draw(size(-3.0, 3.0))
+        ),
         centre_of_pressure=(element_hanger[0] + 100.0, element_hanger[1] - 50.0),
         travel_mm=(-30.0, 30.0),
         travel_steps=13,
@@ -88,9 +92,11 @@ def test_random_chain_sweeps_holding_every_constraint(chain: SideChain) -> None:
     result = travel_sweep(link, TRAVEL_MM)
     points = result.solved.kin.points
     assert result.solved.residual_max_mm.max() <= TOL_MM
-    for group in (rod_length_errors(design, link, points),
-                  pivot_distance_errors(design, link, points),
-                  rigid_distance_errors(design, link, points)):
+    for group in (
+        rod_length_errors(design, link, points),
+        pivot_distance_errors(design, link, points),
+        rigid_distance_errors(design, link, points),
+    ):
         assert group
         for item, err in group.items():
             assert err.max() <= TOL_MM, f"{item}: {err.max():.2e} mm"
@@ -111,7 +117,7 @@ def test_random_chain_solved_back_to_zero_travel_returns_to_the_design_pose(
     result = travel_sweep(link, TRAVEL_MM)
     design_points = link.points[0]
     middle = TRAVEL_MM.size // 2
-    for end, path in ((0, TRAVEL_MM[1: middle + 1]), (-1, TRAVEL_MM[middle:-1][::-1])):
+    for end, path in ((0, TRAVEL_MM[1 : middle + 1]), (-1, TRAVEL_MM[middle:-1][::-1])):
         pose = result.solved.pose.take(end % TRAVEL_MM.size)
         assert abs(result.spec.values["travel_mm"][end]) == 30.0
         for travel in path:

@@ -44,9 +44,14 @@ def _env() -> dict[str, str]:
 @functools.cache
 def _check_json(path: Path) -> tuple[int, str, str]:
     """Exit code, stdout and stderr of ``plumbrod check --json`` (run once per file)."""
-    done = subprocess.run([sys.executable, "-m", "plumbrod", "check", "--json", str(path)],
-                          capture_output=True, text=True, env=_env(), timeout=120,
-                          check=False)
+    done = subprocess.run(
+        [sys.executable, "-m", "plumbrod", "check", "--json", str(path)],
+        capture_output=True,
+        text=True,
+        env=_env(),
+        timeout=120,
+        check=False,
+    )
     return done.returncode, done.stdout, done.stderr
 
 
@@ -134,10 +139,10 @@ def test_member_rows_match_hand_figures(example: tuple[Path, int, dict[str, Any]
         transition = math.sqrt(2.0 * math.pi**2 * modulus / yield_)
         if slender >= transition:
             regime = "euler"
-            p_cr = math.pi**2 * modulus * inertia / (k * length)**2
+            p_cr = math.pi**2 * modulus * inertia / (k * length) ** 2
         else:
             regime = "johnson"
-            p_cr = area * (yield_ - (yield_ * slender / (2.0 * math.pi))**2 / modulus)
+            p_cr = area * (yield_ - (yield_ * slender / (2.0 * math.pi)) ** 2 / modulus)
         assert row["regime"] == regime, name
         assert row["slenderness"] == pytest.approx(slender, abs=1e-4), name
         assert row["critical_load_N"] == pytest.approx(p_cr, abs=1e-3), name
@@ -155,20 +160,17 @@ def test_member_rows_match_hand_figures(example: tuple[Path, int, dict[str, Any]
             assert row["tension_reserve"] == pytest.approx(yield_ * area / high, rel=1e-5)
 
 
-def test_reserve_checks_report_the_weakest_row(
-        example: tuple[Path, int, dict[str, Any]]) -> None:
+def test_reserve_checks_report_the_weakest_row(example: tuple[Path, int, dict[str, Any]]) -> None:
     _, _, report = example
     checks = {c["id"]: c for c in report["checks"]}
     for check_id, key in (("buckling", "buckling_reserve"), ("tension", "tension_reserve")):
         rfs = [m[key] for m in report["members"] if m[key] is not None]
         assert rfs, f"no rod with a {key}"
         assert checks[check_id]["value"] == pytest.approx(min(rfs), abs=1e-6)
-        weakest = min((m for m in report["members"] if m[key] is not None),
-                      key=lambda m: m[key])
+        weakest = min((m for m in report["members"] if m[key] is not None), key=lambda m: m[key])
         assert f"rod '{weakest['name']}'" in checks[check_id]["where"]
         limit = checks[check_id]["limit"]
-        expected = "fail" if min(rfs) < limit else ("warn" if min(rfs) < limit / 0.8
-                                                    else "pass")
+        expected = "fail" if min(rfs) < limit else ("warn" if min(rfs) < limit / 0.8 else "pass")
         assert checks[check_id]["status"] == expected
 
 

@@ -50,9 +50,15 @@ def _env() -> dict[str, str]:
 
 
 def plumbrod_size(*args: str, cwd: Path | None = None) -> subprocess.CompletedProcess[str]:
-    return subprocess.run([sys.executable, "-m", "plumbrod", "size", *args],
-                          capture_output=True, text=True, env=_env(), timeout=120,
-                          check=False, cwd=cwd)
+    return subprocess.run(
+        [sys.executable, "-m", "plumbrod", "size", *args],
+        capture_output=True,
+        text=True,
+        env=_env(),
+        timeout=120,
+        check=False,
+        cwd=cwd,
+    )
 
 
 def _rod_masses_kg(design: Design) -> dict[str, float]:
@@ -61,8 +67,9 @@ def _rod_masses_kg(design: Design) -> dict[str, float]:
     out = {}
     for rod in design.rods:
         assert rod.material == "4130-N"
-        length = math.dist(design.pickups[rod.end_a].position_mm,
-                           design.pickups[rod.end_b].position_mm)
+        length = math.dist(
+            design.pickups[rod.end_a].position_mm, design.pickups[rod.end_b].position_mm
+        )
         area = tube_area_mm2(rod.od_mm, rod.wall_mm)
         out[rod.name] = STEEL_4130N.density_kg_m3 * area * length * 1e-9
     return out
@@ -71,8 +78,11 @@ def _rod_masses_kg(design: Design) -> dict[str, float]:
 def _catalogue() -> list[tuple[float, float]]:
     """(OD, wall) in mm of every catalogue tube, metric and inch."""
     data = tomllib.loads(TUBES.read_text(encoding="utf-8"))
-    return [(float(r["od_mm"]), float(r["wall_mm"]))
-            for system in ("metric", "inch") for r in data[system]]
+    return [
+        (float(r["od_mm"]), float(r["wall_mm"]))
+        for system in ("metric", "inch")
+        for r in data[system]
+    ]
 
 
 @dataclass(frozen=True)
@@ -131,15 +141,19 @@ def test_only_rod_sections_change_and_comments_survive(runs: Runs) -> None:
     assert len(commented) > 10  # the example is well commented
     for line in commented:
         assert line in after, f"comment lost: {line!r}"
-    changed = [line[1:] for line in difflib.unified_diff(before, after, lineterm="", n=0)
-               if line[:1] in "+-" and not line.startswith(("+++", "---"))]
+    changed = [
+        line[1:]
+        for line in difflib.unified_diff(before, after, lineterm="", n=0)
+        if line[:1] in "+-" and not line.startswith(("+++", "---"))
+    ]
     assert changed, "nothing was resized"
     for line in changed:
         assert SECTION_KEYS.match(line), f"unexpected change: {line!r}"
 
 
 def test_sized_design_keeps_every_reserve_and_is_not_heavier(
-        runs: Runs, sized_findings: Findings) -> None:
+    runs: Runs, sized_findings: Findings
+) -> None:
     design = sized_findings.analysis.design
     limits = design.limits
     for name, reserve in sized_findings.reserves.items():
@@ -150,8 +164,10 @@ def test_sized_design_keeps_every_reserve_and_is_not_heavier(
     catalogue = _catalogue()
     for rod in design.rods:
         assert rod.wall_mm is not None
-        assert any(math.isclose(rod.od_mm, od) and math.isclose(rod.wall_mm, wall)
-                   for od, wall in catalogue), rod.name
+        assert any(
+            math.isclose(rod.od_mm, od) and math.isclose(rod.wall_mm, wall)
+            for od, wall in catalogue
+        ), rod.name
     old = _rod_masses_kg(parse_design(runs.original.decode("utf-8"), "kh3.toml"))
     new = _rod_masses_kg(design)
     assert set(old) == set(new)
@@ -170,7 +186,7 @@ def _hand_critical_N(od: float, wall: float, length: float, material: RodSpec) -
     slender = length / math.sqrt(inertia / area)
     if slender >= math.sqrt(2.0 * math.pi**2 * e / sy):
         return math.pi**2 * e * inertia / length**2
-    return area * (sy - (sy * slender / (2.0 * math.pi))**2 / e)
+    return area * (sy - (sy * slender / (2.0 * math.pi)) ** 2 / e)
 
 
 def test_sized_strut_is_the_lightest_adequate_catalogue_tube(tmp_path: Path) -> None:
@@ -178,8 +194,13 @@ def test_sized_strut_is_the_lightest_adequate_catalogue_tube(tmp_path: Path) -> 
     # RF 2 (defaults, common practice, no source).  The lightest catalogue tube that
     # does, found here by trying every row of the catalogue, is the one written.
     steel = RodSpec(od_mm=12.0, wall_mm=1.0, material=STEEL_4130N)
-    s = Strut(strut=steel, guides=RodSpec(material=FEATHER), strut_length_mm=600.0,
-              element_mass_kg=4.0, force_N=8000.0)
+    s = Strut(
+        strut=steel,
+        guides=RodSpec(material=FEATHER),
+        strut_length_mm=600.0,
+        element_mass_kg=4.0,
+        force_N=8000.0,
+    )
     path = tmp_path / "strut.toml"
     path.write_text(strut_text(s), encoding="utf-8")
     done = plumbrod_size(str(path))
@@ -190,8 +211,11 @@ def test_sized_strut_is_the_lightest_adequate_catalogue_tube(tmp_path: Path) -> 
     # the force the sizing uses: the original design's, aero load plus the element and
     # half the original strut (ρAL of a 12 x 1 tube, 600 mm) at 1 g
     force = 8000.0 + (4.0 + steel.mass_kg(600.0) / 2.0) * G0_M_S2
-    adequate = [(tube_area_mm2(od, wall), od, wall) for od, wall in _catalogue()
-                if _hand_critical_N(od, wall, 600.0, steel) >= 3.0 * force]
+    adequate = [
+        (tube_area_mm2(od, wall), od, wall)
+        for od, wall in _catalogue()
+        if _hand_critical_N(od, wall, 600.0, steel) >= 3.0 * force
+    ]
     assert adequate
     _, od, wall = min(adequate)  # lightest (same material and length), then smaller OD
     assert chosen == pytest.approx((od, wall), abs=1e-9)

@@ -143,14 +143,22 @@ def test_every_body_is_in_equilibrium_at_every_pose(name: str) -> None:
             if link.mount[b] == HINGE:
                 for what, wrench in (("the other forces", own), ("the reaction", reaction)):
                     about_axis = wrench[..., 3:6] - np.cross(pts[:, None, a], wrench[..., 0:3])
-                    _close(np.einsum("bki,bi->bk", about_axis, u), 0.0, m_tol,
-                           f"{name} {sweep} {body}: moment of {what} about the hinge axis")
+                    _close(
+                        np.einsum("bki,bi->bk", about_axis, u),
+                        0.0,
+                        m_tol,
+                        f"{name} {sweep} {body}: moment of {what} about the hinge axis",
+                    )
                 checked["hinge"] += 1
             else:
                 assert link.mount[b] == SLIDE
                 for what, wrench in (("the other forces", own), ("the reaction", reaction)):
-                    _close(np.einsum("bki,bi->bk", wrench[..., 0:3], u), 0.0, f_tol,
-                           f"{name} {sweep} {body}: {what} along the slide")
+                    _close(
+                        np.einsum("bki,bi->bk", wrench[..., 0:3], u),
+                        0.0,
+                        f_tol,
+                        f"{name} {sweep} {body}: {what} along the slide",
+                    )
                 checked["slide"] += 1
         # the whole linkage but the chassis: loads + ground + the chassis's reaction = 0,
         # and the chassis receives exactly what its rods and hinges pass on to it
@@ -158,21 +166,30 @@ def test_every_body_is_in_equilibrium_at_every_pose(name: str) -> None:
         balance = applied + sums.contact - sums.chassis_receives
         _close(balance[..., 0:3], 0.0, f_tol, f"{name} {sweep} global force")
         _close(balance[..., 3:6], 0.0, m_tol, f"{name} {sweep} global moment")
-        _close(st.chassis_wrench.sum(axis=2), sums.chassis_receives, m_tol,
-               f"{name} {sweep} chassis_wrench")
-        _close(st.applied_wrench[..., 0:3], applied[..., 0:3], f_tol,
-               f"{name} {sweep} applied force")
-        _close(st.applied_wrench[..., 3:6], applied[..., 3:6], m_tol,
-               f"{name} {sweep} applied moment")
+        _close(
+            st.chassis_wrench.sum(axis=2),
+            sums.chassis_receives,
+            m_tol,
+            f"{name} {sweep} chassis_wrench",
+        )
+        _close(
+            st.applied_wrench[..., 0:3], applied[..., 0:3], f_tol, f"{name} {sweep} applied force"
+        )
+        _close(
+            st.applied_wrench[..., 3:6], applied[..., 3:6], m_tol, f"{name} {sweep} applied moment"
+        )
         assert np.abs(applied[..., 0:3]).max() > 100.0  # loads were really there
         assert np.abs(sums.contact[..., 0:3]).max() > 100.0
     assert checked["free"] > 0 and checked["slide"] + checked["hinge"] > 0
 
 
-@pytest.mark.parametrize(("maker", "case"), [
-    (front_chain_text, {"speed_kmh": 200.0}),  # drag along x, normal to a front view
-    (side_chain_text, {"speed_kmh": 100.0, "lateral_g": 1.5}),  # y, normal to a side view
-])
+@pytest.mark.parametrize(
+    ("maker", "case"),
+    [
+        (front_chain_text, {"speed_kmh": 200.0}),  # drag along x, normal to a front view
+        (side_chain_text, {"speed_kmh": 100.0, "lateral_g": 1.5}),  # y, normal to a side view
+    ],
+)
 def test_a_planar_design_does_not_silently_drop_an_out_of_plane_load(maker, case) -> None:
     # source: Newton's laws as above. A planar linkage has no member that can carry a
     # load normal to its plane, so the tool must either refuse such a load case (a
@@ -196,8 +213,9 @@ def test_a_planar_design_does_not_silently_drop_an_out_of_plane_load(maker, case
 
 # --- virtual work ----------------------------------------------------------------------
 
-VERTICAL_ONLY = {"hand": {"speed_kmh": 0.0, "bump_g": -1.0,
-                          "forces_N": {"wing": (0.0, 0.0, -1000.0)}}}
+VERTICAL_ONLY = {
+    "hand": {"speed_kmh": 0.0, "bump_g": -1.0, "forces_N": {"wing": (0.0, 0.0, -1000.0)}}
+}
 """One case: 1000 N straight down at the centre of pressure and nothing else (1 + bump_g
 = 0 makes every mass weigh nothing, DESIGN §6)."""
 
@@ -245,8 +263,7 @@ def _leakage_scales(analysis: Analysis, sweep: str) -> tuple[np.ndarray, float]:
 
 @pytest.mark.parametrize("kind", ["example as shipped", "example, every kind of load"])
 @pytest.mark.parametrize("name", EXAMPLE_NAMES)
-def test_leakage_direct_and_by_virtual_work_agree_on_every_example(name: str,
-                                                                  kind: str) -> None:
+def test_leakage_direct_and_by_virtual_work_agree_on_every_example(name: str, kind: str) -> None:
     # source: principle of virtual work (Meriam & Kraige, Statics, ch. 7, from memory):
     # the force and moments the chassis receives equal the work of the loads per unit
     # chassis heave, roll and pitch with the wheels on the ground (DESIGN §5 item 5).
@@ -256,7 +273,8 @@ def test_leakage_direct_and_by_virtual_work_agree_on_every_example(name: str,
         force, lever_m = _leakage_scales(analysis, sweep)
         heave = np.abs(st.leakage[..., 0] - st.leakage_virtual_work[..., 0]) / force
         moments = np.abs(st.leakage[..., 1:] - st.leakage_virtual_work[..., 1:]) / (
-            force[..., None] * lever_m)
+            force[..., None] * lever_m
+        )
         assert heave.max() <= 1e-6, f"{name} {sweep}: heave {heave.max():.2e}"
         assert moments.max() <= 1e-6, f"{name} {sweep}: moments {moments.max():.2e}"
         assert np.abs(st.leakage[..., 0]).max() > 1.0  # something leaks to compare
@@ -337,22 +355,33 @@ def test_leakage_is_load_times_ride_height_sensitivity(name: str) -> None:
 
 # --- aero load: ½ρV², standard density ---------------------------------------------------
 
-STATICS_FIELDS = ("rod_force_N", "ball_force_N", "contact_force_N", "joint_wrench",
-                  "chassis_wrench", "leakage", "leakage_virtual_work", "vertical_load_N",
-                  "applied_wrench")
+STATICS_FIELDS = (
+    "rod_force_N",
+    "ball_force_N",
+    "contact_force_N",
+    "joint_wrench",
+    "chassis_wrench",
+    "leakage",
+    "leakage_virtual_work",
+    "vertical_load_N",
+    "applied_wrench",
+)
 
 
 def _speed_and_density_cases(name: str) -> tuple[Analysis, float]:
     text = _fixture_text(name)
     design, _ = parse(text, name)
     v = design.top_speed_kmh or 150.0
-    cases = {"still": {"speed_kmh": 0.0}, "v": {"speed_kmh": v},
-             "twice": {"speed_kmh": 2.0 * v},
-             "thin": {"speed_kmh": v, "air_density_kg_m3": 1.0},
-             "dense": {"speed_kmh": v, "air_density_kg_m3": 2.45},
-             # 1 + bump_g = 0: every mass weighs nothing (DESIGN §6), only the air loads
-             "weightless_v": {"speed_kmh": v, "bump_g": -1.0},
-             "weightless_twice": {"speed_kmh": 2.0 * v, "bump_g": -1.0}}
+    cases = {
+        "still": {"speed_kmh": 0.0},
+        "v": {"speed_kmh": v},
+        "twice": {"speed_kmh": 2.0 * v},
+        "thin": {"speed_kmh": v, "air_density_kg_m3": 1.0},
+        "dense": {"speed_kmh": v, "air_density_kg_m3": 2.45},
+        # 1 + bump_g = 0: every mass weighs nothing (DESIGN §6), only the air loads
+        "weightless_v": {"speed_kmh": v, "bump_g": -1.0},
+        "weightless_twice": {"speed_kmh": 2.0 * v, "bump_g": -1.0},
+    }
     design, _ = parse(text + load_cases_text(cases), name)
     return analyse(design), v
 
@@ -382,8 +411,12 @@ def test_downforce_grows_with_the_square_of_speed(name: str) -> None:
             _close(aero_2v, 4.0 * aero_v, REL * max(scale, 1e-6), f"{name} {sweep} {field}")
             # with the weights taken out, every force itself grows four times
             at_v, at_2v = value[:, k["weightless_v"]], value[:, k["weightless_twice"]]
-            _close(at_2v, 4.0 * at_v, REL * max(float(np.abs(at_2v).max(initial=0.0)), 1e-6),
-                   f"{name} {sweep} {field} (weightless)")
+            _close(
+                at_2v,
+                4.0 * at_v,
+                REL * max(float(np.abs(at_2v).max(initial=0.0)), 1e-6),
+                f"{name} {sweep} {field} (weightless)",
+            )
         rods = st.rod_force_N
         assert np.abs(rods[:, k["v"]] - rods[:, k["still"]]).max() > 50.0  # aero is there
 
@@ -397,11 +430,16 @@ def test_aero_load_of_the_bundled_example_by_hand() -> None:
     analysis = plain_example("hillclimb_splitter")
     assert analysis.loads.cases == ("top-speed", "top-speed-bump-3g")
     st = analysis.statics["travel"]
-    mass_kg = analysis.design.elements[0].mass_kg + sum(
-        r.mass_kg or 0.0 for r in analysis.design.rockers) + sum(
-        rod_mass_kg(analysis.design, r.name) / 2.0 * sum(
-            analysis.design.pickups[end].body != "chassis" for end in (r.end_a, r.end_b))
-        for r in analysis.design.rods)
+    mass_kg = (
+        analysis.design.elements[0].mass_kg
+        + sum(r.mass_kg or 0.0 for r in analysis.design.rockers)
+        + sum(
+            rod_mass_kg(analysis.design, r.name)
+            / 2.0
+            * sum(analysis.design.pickups[end].body != "chassis" for end in (r.end_a, r.end_b))
+            for r in analysis.design.rods
+        )
+    )
     # the splitter's vertical load: downforce plus the weight of what it carries
     expected = -1102.5 - mass_kg * G0_M_S2
     assert st.vertical_load_N[0, 0, 0] == pytest.approx(expected, rel=1e-12)
@@ -421,19 +459,33 @@ def test_sea_level_density_is_the_standard_atmosphere_value() -> None:
     assert LoadCase("x", 100.0).air_density_kg_m3 == 1.225
     assert dynamic_pressure_Pa(100.0) == dynamic_pressure_Pa(100.0, 1.225)
     # a design that does not give a density gets it, in the file and in the forces
-    design, _ = parse(_fixture_text("side chain") + load_cases_text(
-        {"default": {"speed_kmh": 150.0},
-         "standard": {"speed_kmh": 150.0, "air_density_kg_m3": 1.225}}), "density")
+    design, _ = parse(
+        _fixture_text("side chain")
+        + load_cases_text(
+            {
+                "default": {"speed_kmh": 150.0},
+                "standard": {"speed_kmh": 150.0, "air_density_kg_m3": 1.225},
+            }
+        ),
+        "density",
+    )
     assert design.load_cases[0].air_density_kg_m3 == 1.225
     st = analyse(design).statics["travel"]
     np.testing.assert_array_equal(st.rod_force_N[:, 0], st.rod_force_N[:, 1])
     # and the shipped example's default cases do too: same forces as an explicit 1.225
     shipped = plain_example("hillclimb_splitter").statics["travel"]
-    design, _ = parse(_example_text("hillclimb_splitter") + load_cases_text(
-        {"explicit": {"speed_kmh": 180.0, "air_density_kg_m3": 1.225}}), "explicit")
+    design, _ = parse(
+        _example_text("hillclimb_splitter")
+        + load_cases_text({"explicit": {"speed_kmh": 180.0, "air_density_kg_m3": 1.225}}),
+        "explicit",
+    )
     explicit = analyse(design).statics["travel"]
-    _close(explicit.rod_force_N[:, 0], shipped.rod_force_N[:, 0],
-           REL * float(np.abs(shipped.rod_force_N).max()), "default vs explicit 1.225")
+    _close(
+        explicit.rod_force_N[:, 0],
+        shipped.rod_force_N[:, 0],
+        REL * float(np.abs(shipped.rod_force_N).max()),
+        "default vs explicit 1.225",
+    )
 
 
 @pytest.mark.parametrize("name", ["hillclimb_splitter", "planar_undertray", "side chain"])
@@ -459,10 +511,15 @@ W_N = 1000.0
 def _lever(b_mm: float) -> tuple[Analysis, int]:
     """The side chain with the hanger arm ``b_mm`` and 1000 N down at x = 200 mm; the
     design pose's index in a 3-pose travel sweep."""
-    chain = SideChain(rocker_hanger=(b_mm, 580.0), element_hanger=(b_mm, 200.0),
-                      travel_mm=(-10.0, 10.0), travel_steps=3)
-    design, _ = parse(side_chain_text(chain, body_sweeps=False)
-                      + load_cases_text(VERTICAL_ONLY), "lever")
+    chain = SideChain(
+        rocker_hanger=(b_mm, 580.0),
+        element_hanger=(b_mm, 200.0),
+        travel_mm=(-10.0, 10.0),
+        travel_steps=3,
+    )
+    design, _ = parse(
+        side_chain_text(chain, body_sweeps=False) + load_cases_text(VERTICAL_ONLY), "lever"
+    )
     return analyse(design), 1
 
 
@@ -498,15 +555,22 @@ def test_lever_route_by_hand(b_mm: float) -> None:
     assert rods["guide_lower"] == pytest.approx(W_N * (x_p - b_mm) / 90.0, abs=tol)
     assert st.contact_force_N[i, 0, 0] == pytest.approx(W_N * b_mm / a, abs=tol)
     lever = st.joint_wrench[i, 0, link.body("lever")]
-    _close(lever, [0.0, 0.0, W_N - W_N * b_mm / a, 0.0, 0.0, 0.0], tol * 1000.0,
-           "pivot reaction on the lever")
+    _close(
+        lever,
+        [0.0, 0.0, W_N - W_N * b_mm / a, 0.0, 0.0, 0.0],
+        tol * 1000.0,
+        "pivot reaction on the lever",
+    )
     slide = st.joint_wrench[i, 0, link.body("front.upright")]
     _close(slide, [0.0, 0.0, 0.0, 0.0, -W_N * b_mm, 0.0], tol * 1000.0, "slide reaction")
     (route,) = analysis.routes.routes
-    _close(st.upright_force_N[route.name][i, 0], [0.0, 0.0, -W_N * b_mm / a], tol,
-           "upright force")
-    _close(st.upright_moment_Nm[route.name][i, 0], [0.0, W_N * b_mm / 1000.0, 0.0], tol,
-           "upright moment (N·m)")
+    _close(st.upright_force_N[route.name][i, 0], [0.0, 0.0, -W_N * b_mm / a], tol, "upright force")
+    _close(
+        st.upright_moment_Nm[route.name][i, 0],
+        [0.0, W_N * b_mm / 1000.0, 0.0],
+        tol,
+        "upright moment (N·m)",
+    )
     heave, pitch = W_N * (b_mm / a - 1.0), W_N * x_p / 1000.0
     _close(st.leakage[i, 0, 0], [heave, 0.0, pitch], tol, "leakage")
     _close(st.leakage_virtual_work[i, 0, 0], [heave, 0.0, pitch], tol, "leakage (work)")
@@ -517,14 +581,19 @@ def test_lever_route_by_hand(b_mm: float) -> None:
 # --- a planar route against sympy --------------------------------------------------------
 
 FOUR_BAR_CASES = {
-    "braking": {"speed_kmh": 0.0, "bump_g": 0.5, "longitudinal_g": -1.2,
-                "forces_N": {"wing": (-300.0, 0.0, -2500.0)}},
+    "braking": {
+        "speed_kmh": 0.0,
+        "bump_g": 0.5,
+        "longitudinal_g": -1.2,
+        "forces_N": {"wing": (-300.0, 0.0, -2500.0)},
+    },
     "light": {"speed_kmh": 0.0, "forces_N": {"wing": (0.0, 0.0, -400.0)}},
 }
 
 
-def _sympy_four_bar_forces(analysis: Analysis, sweep: str, i: int,
-                           case: LoadCase) -> dict[str, float]:
+def _sympy_four_bar_forces(
+    analysis: Analysis, sweep: str, i: int, case: LoadCase
+) -> dict[str, float]:
     """Rod forces and the ground force of the four-bar route at one pose, from the
     equilibrium equations of its four bodies solved exactly by sympy (side view)."""
     design, link = analysis.design, analysis.link
@@ -565,8 +634,9 @@ def _sympy_four_bar_forces(analysis: Analysis, sweep: str, i: int,
         forces.append((body_a, pa, t[rod.name] * e))
         forces.append((body_b, pb, -t[rod.name] * e))
         half = weight(rod_mass_kg(design, rod.name) / 2.0)
-        forces.extend((body, p, half) for body, p in ((body_a, pa), (body_b, pb))
-                      if body != "chassis")
+        forces.extend(
+            (body, p, half) for body, p in ((body_a, pa), (body_b, pb)) if body != "chassis"
+        )
     wing = design.elements[0]
     forces.append(("wing", at("wing.centre_of_pressure"), in_chassis(case.forces_N["wing"])))
     forces.append(("wing", at("wing.cg"), weight(wing.mass_kg)))
@@ -613,9 +683,11 @@ def test_four_bar_route_forces_match_sympy_equilibrium() -> None:
                 for rod in ("drive", "coupler", "hanger", "guide_upper", "guide_lower"):
                     got = st.rod_force_N[i, k, link.rod_names.index(rod)]
                     assert got == pytest.approx(expected[rod], abs=REL * scale), (
-                        f"{sweep} pose {i} {case.name} rod {rod}")
-                assert st.contact_force_N[i, k, 0] == pytest.approx(expected["ground"],
-                                                                    abs=REL * scale)
+                        f"{sweep} pose {i} {case.name} rod {rod}"
+                    )
+                assert st.contact_force_N[i, k, 0] == pytest.approx(
+                    expected["ground"], abs=REL * scale
+                )
                 seen += 1
     assert seen == 12
 
@@ -642,25 +714,36 @@ def test_beam_on_three_hangers_splits_the_load_by_stiffness(mixed: bool) -> None
     # With equal rods: T_i = W·(1/3 + (x_i − x̄)(x_p − x̄)/Σ(x_j − x̄)²).
     length, x_p, w = 400.0, 180.0, 3000.0
     if mixed:
-        hangers = (("a", -200.0, "4130-N", 16.0, 1.2), ("b", 100.0, "4130-N", 12.0, 1.0),
-                   ("c", 300.0, "6061-T6", 20.0, 2.0))
-        k = np.array([E_4130_MPA * _tube_area_mm2(16.0, 1.2), E_4130_MPA *
-                      _tube_area_mm2(12.0, 1.0), E_6061_MPA * _tube_area_mm2(20.0, 2.0)])
+        hangers = (
+            ("a", -200.0, "4130-N", 16.0, 1.2),
+            ("b", 100.0, "4130-N", 12.0, 1.0),
+            ("c", 300.0, "6061-T6", 20.0, 2.0),
+        )
+        k = np.array(
+            [
+                E_4130_MPA * _tube_area_mm2(16.0, 1.2),
+                E_4130_MPA * _tube_area_mm2(12.0, 1.0),
+                E_6061_MPA * _tube_area_mm2(20.0, 2.0),
+            ]
+        )
     else:
-        hangers = tuple((n, x, "4130-N", 16.0, 1.2)
-                        for n, x in (("a", -200.0), ("b", 100.0), ("c", 300.0)))
+        hangers = tuple(
+            (n, x, "4130-N", 16.0, 1.2) for n, x in (("a", -200.0), ("b", 100.0), ("c", 300.0))
+        )
         k = np.full(3, E_4130_MPA * _tube_area_mm2(16.0, 1.2))
     k /= length
     x = np.array([h[1] for h in hangers])
     cases = {"hand": {"speed_kmh": 0.0, "bump_g": -1.0, "forces_N": {"beam": (0.0, 0.0, -w)}}}
-    design, _ = parse(three_hangers_text(hangers, length, x_p) + load_cases_text(cases),
-                      "three hangers")
+    design, _ = parse(
+        three_hangers_text(hangers, length, x_p) + load_cases_text(cases), "three hangers"
+    )
     analysis = analyse(design)
     assert analysis.mobility.redundant  # one rod more than the beam needs
     st = analysis.statics["travel"]
     assert st.elastic
-    u, theta = np.linalg.solve([[k.sum(), (k * x).sum()], [(k * x).sum(), (k * x * x).sum()]],
-                               [w, w * x_p])
+    u, theta = np.linalg.solve(
+        [[k.sum(), (k * x).sum()], [(k * x).sum(), (k * x * x).sum()]], [w, w * x_p]
+    )
     expected = k * (u + theta * x)
     if not mixed:
         xm = x.mean()
@@ -670,7 +753,8 @@ def test_beam_on_three_hangers_splits_the_load_by_stiffness(mixed: bool) -> None
     np.testing.assert_allclose(got, expected, rtol=0.0, atol=REL * w)
     assert got.sum() == pytest.approx(w, rel=REL)
     assert st.rod_force_N[1, 0, analysis.link.rod_names.index("guide")] == pytest.approx(
-        0.0, abs=REL * w)
+        0.0, abs=REL * w
+    )
     assert st.contact_force_N[1, 0, 0] == pytest.approx(w, rel=REL)
     if mixed:  # the split depends on the stiffness: not the equal-rod answer
         xm = x.mean()

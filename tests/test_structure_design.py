@@ -53,7 +53,7 @@ def _euler_N(spec: RodSpec, length_mm: float) -> float:
     Materials, Example 13.1, pub-copy; REFERENCES.md, Columns).
     """
     inertia = tube_second_moment_mm4(spec.od_mm, spec.wall_mm)
-    return math.pi**2 * spec.material.modulus_MPa * inertia / (spec.end_fixity * length_mm)**2
+    return math.pi**2 * spec.material.modulus_MPa * inertia / (spec.end_fixity * length_mm) ** 2
 
 
 def _strut_force_N(s: Strut) -> float:
@@ -70,13 +70,15 @@ def _strut_force_N(s: Strut) -> float:
 
 
 @pytest.mark.parametrize("end_fixity", [1.0, 0.8], ids=["K1.0", "K0.8"])
-def test_strut_buckling_reserve_is_euler_load_over_the_worst_compression(
-        end_fixity: float) -> None:
+def test_strut_buckling_reserve_is_euler_load_over_the_worst_compression(end_fixity: float) -> None:
     # K 1.0: ball joints at both ends; K 0.8: the recommended design value for
     # fixed-pinned ends (source: AISC 360-22 Commentary, Table C-A-7.1, pub).
-    s = Strut(strut=RodSpec(od_mm=12.0, wall_mm=1.0, material=STEEL_4130N,
-                            end_fixity=end_fixity),
-              strut_length_mm=600.0, element_mass_kg=4.0, force_N=600.0)
+    s = Strut(
+        strut=RodSpec(od_mm=12.0, wall_mm=1.0, material=STEEL_4130N, end_fixity=end_fixity),
+        strut_length_mm=600.0,
+        element_mass_kg=4.0,
+        force_N=600.0,
+    )
     findings = _review(strut_text(s))
     reserve = findings.reserves["strut"]
 
@@ -101,7 +103,8 @@ def test_strut_buckling_reserve_is_euler_load_over_the_worst_compression(
     design_pose = s.travel_steps // 2
     j = findings.analysis.link.rod_names.index("strut")
     assert findings.analysis.statics["travel"].rod_force_N[design_pose, 0, j] == (
-        pytest.approx(p_hand, rel=1e-9))
+        pytest.approx(p_hand, rel=1e-9)
+    )
     assert reserve.buckling_rf == pytest.approx(p_cr / abs(p_hand), rel=WORST_REL)
 
     check = next(c for c in findings.checks if c.id == "buckling")
@@ -175,9 +178,14 @@ def _env() -> dict[str, str]:
 
 
 def _check_json(path: Path) -> tuple[int, dict]:
-    done = subprocess.run([sys.executable, "-m", "plumbrod", "check", "--json", str(path)],
-                          capture_output=True, text=True, env=_env(), timeout=120,
-                          check=False)
+    done = subprocess.run(
+        [sys.executable, "-m", "plumbrod", "check", "--json", str(path)],
+        capture_output=True,
+        text=True,
+        env=_env(),
+        timeout=120,
+        check=False,
+    )
     assert done.stderr == "", done.stderr
     return done.returncode, json.loads(done.stdout)
 
@@ -212,8 +220,12 @@ def test_long_slender_strut_fails_the_buckling_check(tmp_path: Path) -> None:
 def test_the_same_strut_as_a_tube_passes(tmp_path: Path) -> None:
     # the counterpart of the failing design: only the strut's section differs, and the
     # design passes, so the exit code above comes from the slender strut alone
-    s = Strut(strut=RodSpec(od_mm=16.0, wall_mm=1.2, material=STEEL_4130N),
-              strut_length_mm=600.0, element_mass_kg=4.0, force_N=600.0)
+    s = Strut(
+        strut=RodSpec(od_mm=16.0, wall_mm=1.2, material=STEEL_4130N),
+        strut_length_mm=600.0,
+        element_mass_kg=4.0,
+        force_N=600.0,
+    )
     path = tmp_path / "tube_strut.toml"
     path.write_text(strut_text(s), encoding="utf-8")
     code, report = _check_json(path)

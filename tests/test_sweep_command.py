@@ -38,9 +38,15 @@ def _env() -> dict[str, str]:
 
 
 def plumbrod_sweep(cwd: Path, *args: str) -> subprocess.CompletedProcess[str]:
-    return subprocess.run([sys.executable, "-m", "plumbrod", "sweep", *args],
-                          capture_output=True, text=True, env=_env(), cwd=cwd, timeout=120,
-                          check=False)
+    return subprocess.run(
+        [sys.executable, "-m", "plumbrod", "sweep", *args],
+        capture_output=True,
+        text=True,
+        env=_env(),
+        cwd=cwd,
+        timeout=120,
+        check=False,
+    )
 
 
 @pytest.fixture
@@ -76,7 +82,8 @@ def _hand_row_checks(row: dict[str, float | None]) -> None:
 
 
 def test_sweep_writes_one_csv_row_per_pose_with_units_and_case_columns(
-        design_file: Path, tmp_path: Path) -> None:
+    design_file: Path, tmp_path: Path
+) -> None:
     out = tmp_path / "table.csv"
     done = plumbrod_sweep(tmp_path, str(design_file), "--csv", str(out))
     assert done.returncode == 0, done.stderr
@@ -94,8 +101,13 @@ def test_sweep_writes_one_csv_row_per_pose_with_units_and_case_columns(
         for rod in RODS:
             assert f"{case}/{rod}/force_N" in header
     assert len(header) == len(set(header))
-    table = [{c: (float(v) if v not in ("", "travel", "heave", "pitch") else None)
-              for c, v in zip(header, r, strict=True)} for r in rows]
+    table = [
+        {
+            c: (float(v) if v not in ("", "travel", "heave", "pitch") else None)
+            for c, v in zip(header, r, strict=True)
+        }
+        for r in rows
+    ]
     design_pose = next(r for r in table if r["travel_mm"] == 0.0)
     _hand_row_checks(design_pose)
     assert _files(tmp_path) == {"lever.toml", "table.csv"}
@@ -123,8 +135,7 @@ def test_sweep_json_and_csv_hold_the_same_table(design_file: Path, tmp_path: Pat
     done = plumbrod_sweep(tmp_path, str(design_file), "--csv", "t.csv", "--json", "t.json")
     assert done.returncode == 0, done.stderr
     doc = json.loads((tmp_path / "t.json").read_text(encoding="utf-8"))
-    header, *rows = list(csv.reader(io.StringIO(
-        (tmp_path / "t.csv").read_text(encoding="utf-8"))))
+    header, *rows = list(csv.reader(io.StringIO((tmp_path / "t.csv").read_text(encoding="utf-8"))))
     assert header == doc["columns"]
     for line, row in zip(rows, doc["rows"], strict=True):
         as_json = ["" if v is None else v for v in row]
@@ -142,13 +153,18 @@ def test_sweep_with_a_missing_design_exits_2_and_writes_nothing(tmp_path: Path) 
     assert _files(tmp_path) == set()
 
 
-@pytest.mark.parametrize("outputs", [
-    ("--csv", "blocker/out.csv"),
-    ("--json", "blocker/out.json"),
-    ("--csv", "good.csv", "--json", "blocker/out.json"),
-], ids=["csv", "json", "csv then json"])
+@pytest.mark.parametrize(
+    "outputs",
+    [
+        ("--csv", "blocker/out.csv"),
+        ("--json", "blocker/out.json"),
+        ("--csv", "good.csv", "--json", "blocker/out.json"),
+    ],
+    ids=["csv", "json", "csv then json"],
+)
 def test_sweep_with_an_unwritable_output_path_exits_2_and_writes_nothing(
-        design_file: Path, tmp_path: Path, outputs: tuple[str, ...]) -> None:
+    design_file: Path, tmp_path: Path, outputs: tuple[str, ...]
+) -> None:
     # An output path under a regular file cannot be created. README "Bad input": one
     # line naming the problem, exit code 2, and nothing is written.
     (tmp_path / "blocker").write_text("a file, not a folder\n", encoding="utf-8")

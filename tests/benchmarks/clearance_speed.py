@@ -53,17 +53,31 @@ def build_scene(n: int = POSES):
         s = travel[side]
         lift = np.stack([np.zeros(n), np.zeros(n), s], axis=1)  # upright moves with the wheel
         wheel_c = np.array([0.0, side * 720.0, 300.0])
-        tyres.append(Cylinder(wheel_c + np.array([0, -side * 110.0, 0]) + lift,
-                              wheel_c + np.array([0, side * 110.0, 0]) + lift, 305.0))
+        tyres.append(
+            Cylinder(
+                wheel_c + np.array([0, -side * 110.0, 0]) + lift,
+                wheel_c + np.array([0, side * 110.0, 0]) + lift,
+                305.0,
+            )
+        )
         # two rockers turning about axes fixed to the chassis
         for k, (pivot, axis_dir) in enumerate(
-            [(np.array([60.0, side * 230.0, 520.0]), np.array([1.0, 0.0, 0.0])),
-             (np.array([-140.0, side * 200.0, 560.0]), np.array([1.0, 0.2 * side, 0.1]))]
+            [
+                (np.array([60.0, side * 230.0, 520.0]), np.array([1.0, 0.0, 0.0])),
+                (np.array([-140.0, side * 200.0, 560.0]), np.array([1.0, 0.2 * side, 0.1])),
+            ]
         ):
             angle = np.radians(0.6 * s + 3.0 * k)
             rot = _rotation_about(axis_dir, angle)
-            outline = np.array([[0.0, 0, -25], [0, side * 70, -20], [0, side * 85, 40],
-                                [0, side * 10, 55], [0, -side * 20, 20]])
+            outline = np.array(
+                [
+                    [0.0, 0, -25],
+                    [0, side * 70, -20],
+                    [0, side * 85, 40],
+                    [0, side * 10, 55],
+                    [0, -side * 20, 20],
+                ]
+            )
             if k == 1:
                 outline = outline @ _rotation_about(axis_dir, np.array([0.3]))[0].T
             verts = pivot + np.einsum("nij,kj->nki", rot, outline)
@@ -82,19 +96,33 @@ def build_scene(n: int = POSES):
             Capsule(plates[-2].vertices[:, 3], element, 8.0),
             Capsule(plates[-1].vertices[:, 3], element2, 8.0),
             Capsule(chassis, element + np.array([0.0, side * 50.0, -40.0]), 6.0),
-            Capsule(np.array([150.0, side * 300.0, 100.0]),
-                    element2 + np.array([20.0, side * 30.0, 0.0]), 6.0),
+            Capsule(
+                np.array([150.0, side * 300.0, 100.0]),
+                element2 + np.array([20.0, side * 30.0, 0.0]),
+                6.0,
+            ),
         ]
     zones = [
         Box([-150.0, 0.0, 250.0], [300.0, 110.0, 180.0]),  # driver cell side walls
-        Box([300.0, 0.0, 450.0], [60.0, 90.0, 40.0],
-            _rotation_about(np.array([0.0, 1.0, 0.0]), np.array([0.3]))[0]),  # damper tray
+        Box(
+            [300.0, 0.0, 450.0],
+            [60.0, 90.0, 40.0],
+            _rotation_about(np.array([0.0, 1.0, 0.0]), np.array([0.3]))[0],
+        ),  # damper tray
         Cylinder([-250.0, 300.0, 650.0], [250.0, 300.0, 650.0], 12.5),  # frame tubes
         Cylinder([-250.0, -300.0, 650.0], [250.0, -300.0, 650.0], 12.5),
-        Prism([(-250, 80), (250, 80), (250, 140), (120, 140), (60, 260), (-250, 260)],
-              "front", -500.0, -350.0),  # bulkhead section, non-convex
-        Prism([(-600, 0), (-300, 0), (-300, 60), (-450, 60), (-450, 200), (-600, 200)],
-              "side", -150.0, 150.0),  # footwell, non-convex
+        Prism(
+            [(-250, 80), (250, 80), (250, 140), (120, 140), (60, 260), (-250, 260)],
+            "front",
+            -500.0,
+            -350.0,
+        ),  # bulkhead section, non-convex
+        Prism(
+            [(-600, 0), (-300, 0), (-300, 60), (-450, 60), (-450, 200), (-600, 200)],
+            "side",
+            -150.0,
+            150.0,
+        ),  # footwell, non-convex
         *tyres,
     ]
     return rods, plates, zones
@@ -120,13 +148,18 @@ def main() -> None:
     evaluated = sum(r.poses_evaluated for r in result)
     closest = min(result, key=lambda r: r.distance_mm)
     print(f"pairs: {len(pairs)}  poses: {POSES}  pair x pose: {len(pairs) * POSES}")
-    print(f"pose pairs measured exactly: {evaluated} "
-          f"({100.0 * evaluated / (len(pairs) * POSES):.1f} %)")
-    print(f"least clearance in the scene: {closest.distance_mm:.3f} mm "
-          f"at pose {closest.pose_index}")
-    print(f"runs: {REPEATS}  CPU median {1e3 * statistics.median(cpu):.1f} ms "
-          f"(min {1e3 * min(cpu):.1f})  wall median {1e3 * statistics.median(wall):.1f} ms "
-          f"(min {1e3 * min(wall):.1f})  load average {os.getloadavg()[0]:.2f}")
+    print(
+        f"pose pairs measured exactly: {evaluated} "
+        f"({100.0 * evaluated / (len(pairs) * POSES):.1f} %)"
+    )
+    print(
+        f"least clearance in the scene: {closest.distance_mm:.3f} mm at pose {closest.pose_index}"
+    )
+    print(
+        f"runs: {REPEATS}  CPU median {1e3 * statistics.median(cpu):.1f} ms "
+        f"(min {1e3 * min(cpu):.1f})  wall median {1e3 * statistics.median(wall):.1f} ms "
+        f"(min {1e3 * min(wall):.1f})  load average {os.getloadavg()[0]:.2f}"
+    )
     print(f"clearance_ms={1e3 * statistics.median(cpu):.1f}")
 
 

@@ -63,8 +63,11 @@ def fsolve_each(link: Linkage, drive: TravelDrive | BodyDrive) -> float:
 
         def pose_of(q: np.ndarray) -> Pose:
             free = q[nj:].reshape(nf, 6)
-            return Pose(q[None, :nj], rotation_vector_matrix(free[:, 3:6])[None],
-                        base.centre + free[None, :, 0:3])
+            return Pose(
+                q[None, :nj],
+                rotation_vector_matrix(free[:, 3:6])[None],
+                base.centre + free[None, :, 0:3],
+            )
 
         def residual(q: np.ndarray, one: TravelDrive | BodyDrive = one) -> np.ndarray:
             return evaluate(link, one, pose_of(q))[1][0]
@@ -86,8 +89,9 @@ def main() -> None:
     nc = len(link.corner_names)
     travel = np.linspace(-40.0, 40.0, 201)
     sweep = TravelDrive(np.repeat(travel[:, None], nc, axis=1))
-    h, r = np.meshgrid(np.linspace(-25.0, 25.0, 41), np.radians(np.linspace(-1.5, 1.5, 41)),
-                       indexing="ij")
+    h, r = np.meshgrid(
+        np.linspace(-25.0, 25.0, 41), np.radians(np.linspace(-1.5, 1.5, 41)), indexing="ij"
+    )
     grid = BodyDrive(np.stack((h.ravel(), r.ravel(), np.zeros(h.size)), axis=1))
 
     solve_poses(link, sweep)  # warm caches
@@ -103,23 +107,38 @@ def main() -> None:
     t_base_sweep, worst_sweep = timed(lambda: fsolve_each(link, sweep), 3)
     t_base_grid, worst_grid = timed(lambda: fsolve_each(link, grid), 1)
 
-    cli = [sys.executable, "-m", "plumbrod", "check",
-           str(Path(__file__).resolve().parents[2] / "examples" / BUNDLED_EXAMPLE)]
+    cli = [
+        sys.executable,
+        "-m",
+        "plumbrod",
+        "check",
+        str(Path(__file__).resolve().parents[2] / "examples" / BUNDLED_EXAMPLE),
+    ]
     t_check, _ = timed(lambda: subprocess.run(cli, capture_output=True, check=False), 5)
 
-    print(f"201-pose travel sweep: plumbrod median {t_sweep * 1e3:.2f} ms "
-          f"(largest residual {res_sweep:.1e} mm, tolerance {RESIDUAL_TOL_MM:.0e} mm)")
-    print(f"201-pose travel sweep: fsolve each pose median {t_base_sweep * 1e3:.1f} ms "
-          f"(largest residual {worst_sweep:.1e} mm)")
-    print(f"41 x 41 heave-roll grid: plumbrod median {t_grid * 1e3:.1f} ms "
-          f"(largest residual {res_grid:.1e} mm)")
-    print(f"41 x 41 heave-roll grid: fsolve each pose {t_base_grid * 1e3:.0f} ms "
-          f"(largest residual {worst_grid:.1e} mm)")
+    print(
+        f"201-pose travel sweep: plumbrod median {t_sweep * 1e3:.2f} ms "
+        f"(largest residual {res_sweep:.1e} mm, tolerance {RESIDUAL_TOL_MM:.0e} mm)"
+    )
+    print(
+        f"201-pose travel sweep: fsolve each pose median {t_base_sweep * 1e3:.1f} ms "
+        f"(largest residual {worst_sweep:.1e} mm)"
+    )
+    print(
+        f"41 x 41 heave-roll grid: plumbrod median {t_grid * 1e3:.1f} ms "
+        f"(largest residual {res_grid:.1e} mm)"
+    )
+    print(
+        f"41 x 41 heave-roll grid: fsolve each pose {t_base_grid * 1e3:.0f} ms "
+        f"(largest residual {worst_grid:.1e} mm)"
+    )
     print(f"grid speedup vs fsolve: {t_base_grid / t_grid:.1f}")
     exact = sum(p.exact for p in report.pairs)
-    print(f"clearance of the bundled example: median {t_clear * 1e3:.1f} ms for "
-          f"{len(report.pairs)} pairs ({exact} measured exactly, the rest bounded as far) "
-          f"over {report.poses} poses")
+    print(
+        f"clearance of the bundled example: median {t_clear * 1e3:.1f} ms for "
+        f"{len(report.pairs)} pairs ({exact} measured exactly, the rest bounded as far) "
+        f"over {report.poses} poses"
+    )
     print(f"plumbrod check on the bundled example, wall time median: {t_check:.3f} s")
     print(f"speedup_vs_fsolve={t_base_sweep / t_sweep:.1f}")
 

@@ -298,8 +298,9 @@ def prism_vertices(
         + poly[..., 1, None] * axes[..., None, 1, :]
     )
     w = axes[..., None, 2, :]
-    return np.concatenate([base + zlo[..., None, None] * w, base + zhi[..., None, None] * w],
-                          axis=-2)
+    return np.concatenate(
+        [base + zlo[..., None, None] * w, base + zhi[..., None, None] * w], axis=-2
+    )
 
 
 def prism_edge_index(m: int) -> np.ndarray:
@@ -342,15 +343,19 @@ def prism_prism(
     keep = (low_b[:, None, :] - top_a[:, :, None] < best[:, None, None]) | ~ok[:, None, None]
     r, ia, ib = np.nonzero(keep)
     if r.size:
-        xs, ys, ds = seg_seg(va[r, ea[ia, 0]], va[r, ea[ia, 1]], vb[r, eb[ib, 0]],
-                             vb[r, eb[ib, 1]])
+        xs, ys, ds = seg_seg(va[r, ea[ia, 0]], va[r, ea[ia, 1]], vb[r, eb[ib, 0]], vb[r, eb[ib, 1]])
         x, y, best = _merge_best(x, y, best, r, xs, ys, ds)
     return x, y, best
 
 
 def _merge_best(
-    x: np.ndarray, y: np.ndarray, best: np.ndarray, r: np.ndarray, xs: np.ndarray,
-    ys: np.ndarray, ds: np.ndarray,
+    x: np.ndarray,
+    y: np.ndarray,
+    best: np.ndarray,
+    r: np.ndarray,
+    xs: np.ndarray,
+    ys: np.ndarray,
+    ds: np.ndarray,
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Replace row r's (x, y, best) by candidates (xs, ys, ds) that are closer."""
     order = np.lexsort((ds, r))
@@ -373,7 +378,11 @@ def _expand(arr: np.ndarray) -> np.ndarray:
 
 
 def seg_cyl(
-    p0: np.ndarray, p1: np.ndarray, c0: np.ndarray, axis: np.ndarray, length: np.ndarray,
+    p0: np.ndarray,
+    p1: np.ndarray,
+    c0: np.ndarray,
+    axis: np.ndarray,
+    length: np.ndarray,
     radius: np.ndarray,
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Closest points of segments (N, 3) and capped cylinders (N, …); exact.
@@ -398,8 +407,16 @@ def seg_cyl(
     cuts = [np.where(np.isfinite(c), c, 0.0) for c in cuts]
     bounds = np.stack([np.zeros(n), np.ones(n), *cuts], axis=1)
     tk = np.sort(np.clip(bounds, 0.0, 1.0), axis=1)
-    slope, _ = _cyl_slope(tk, h0[:, None], dh[:, None], rho0[:, None], drho[:, None],
-                          qa[:, None], length[:, None], radius[:, None])
+    slope, _ = _cyl_slope(
+        tk,
+        h0[:, None],
+        dh[:, None],
+        rho0[:, None],
+        drho[:, None],
+        qa[:, None],
+        length[:, None],
+        radius[:, None],
+    )
     rows = np.arange(n)
     pos = slope >= 0.0
     idx = np.argmax(pos, axis=1)
@@ -412,8 +429,16 @@ def seg_cyl(
         fa, fb = slope[todo, i1 - 1], slope[todo, i1]
         guess = lo + (hi - lo) * np.clip(fa / (fa - fb), 0.0, 1.0)
         t[todo] = _newton_in_bracket(
-            guess, lo, hi, h0[todo], dh[todo], rho0[todo], drho[todo], qa[todo],
-            length[todo], radius[todo],
+            guess,
+            lo,
+            hi,
+            h0[todo],
+            dh[todo],
+            rho0[todo],
+            drho[todo],
+            qa[todo],
+            length[todo],
+            radius[todo],
         )
     x = p0 + t[:, None] * d
     y, dist = point_cyl(x, c0, axis, length, radius)
@@ -421,8 +446,14 @@ def seg_cyl(
 
 
 def _cyl_slope(
-    t: np.ndarray, h0: np.ndarray, dh: np.ndarray, rho0: np.ndarray, drho: np.ndarray,
-    qa: np.ndarray, length: np.ndarray, radius: np.ndarray,
+    t: np.ndarray,
+    h0: np.ndarray,
+    dh: np.ndarray,
+    rho0: np.ndarray,
+    drho: np.ndarray,
+    qa: np.ndarray,
+    length: np.ndarray,
+    radius: np.ndarray,
 ) -> tuple[np.ndarray, np.ndarray]:
     """Half the first and second derivatives of the squared distance from x(t) to the
     cylinder."""
@@ -442,9 +473,17 @@ def _cyl_slope(
 
 
 def _newton_in_bracket(
-    t: np.ndarray, lo: np.ndarray, hi: np.ndarray, h0: np.ndarray, dh: np.ndarray,
-    rho0: np.ndarray, drho: np.ndarray, qa: np.ndarray, length: np.ndarray,
-    radius: np.ndarray, max_iter: int = 100,
+    t: np.ndarray,
+    lo: np.ndarray,
+    hi: np.ndarray,
+    h0: np.ndarray,
+    dh: np.ndarray,
+    rho0: np.ndarray,
+    drho: np.ndarray,
+    qa: np.ndarray,
+    length: np.ndarray,
+    radius: np.ndarray,
+    max_iter: int = 100,
 ) -> np.ndarray:
     """Root of the (non-decreasing) slope in [lo, hi]: Newton steps, bisection when a
     step leaves the bracket (Press et al., *Numerical Recipes*, ``rtsafe``)."""
@@ -456,8 +495,9 @@ def _newton_in_bracket(
         if act.size == 0:
             break
         ta = t[act]
-        slope, curve = _cyl_slope(ta, h0[act], dh[act], rho0[act], drho[act], qa[act],
-                                  length[act], radius[act])
+        slope, curve = _cyl_slope(
+            ta, h0[act], dh[act], rho0[act], drho[act], qa[act], length[act], radius[act]
+        )
         neg = slope < 0.0
         lo[act] = np.where(neg, ta, lo[act])
         hi[act] = np.where(neg, hi[act], ta)
@@ -504,7 +544,7 @@ def prism_cyl(
     # faces: outward unit normals (n, m + 2, 3)
     edge, elen2, normal = prism_edges(poly)
     nlen = np.sqrt(np.where(edge_ok, elen2, 1.0))
-    side_n = (normal[..., 0, None] * axes[:, None, 0] + normal[..., 1, None] * axes[:, None, 1])
+    side_n = normal[..., 0, None] * axes[:, None, 0] + normal[..., 1, None] * axes[:, None, 1]
     side_n = side_n / nlen[..., None]
     w = axes[:, 2]
     normals = np.concatenate([side_n, w[:, None], -w[:, None]], axis=1)
@@ -515,19 +555,23 @@ def prism_cyl(
     along = np.einsum("nmk,nmk->nm", qs - poly, edge)
     height = np.einsum("nmk,nmk->nm", qs - poly, normal) / nlen
     side_ok = (
-        edge_ok & (along >= 0.0) & (along <= elen2)
-        & (z[:, :m] >= zlo[:, None]) & (z[:, :m] <= zhi[:, None])
+        edge_ok
+        & (along >= 0.0)
+        & (along <= elen2)
+        & (z[:, :m] >= zlo[:, None])
+        & (z[:, :m] <= zhi[:, None])
     )
     cap_q = q[:, m:]
     inside = np.all(
-        (edge[:, None, :, 0] * (cap_q[:, :, None, 1] - poly[:, None, :, 1])
-         - edge[:, None, :, 1] * (cap_q[:, :, None, 0] - poly[:, None, :, 0]) >= 0.0)
+        (
+            edge[:, None, :, 0] * (cap_q[:, :, None, 1] - poly[:, None, :, 1])
+            - edge[:, None, :, 1] * (cap_q[:, :, None, 0] - poly[:, None, :, 0])
+            >= 0.0
+        )
         | ~edge_ok[:, None],
         axis=-1,
     )
-    gap = np.concatenate(
-        [height, (z[:, m] - zhi)[:, None], (zlo - z[:, m + 1])[:, None]], axis=1
-    )
+    gap = np.concatenate([height, (z[:, m] - zhi)[:, None], (zlo - z[:, m + 1])[:, None]], axis=1)
     ok = np.concatenate([side_ok, inside], axis=1)
     xf = yf - gap[..., None] * normals
     df = np.where(ok, np.abs(gap), np.inf)

@@ -39,16 +39,23 @@ def part_of(solid: Solid) -> tuple[Part, bool]:
         h = solid.half_size
         hx, hy, hz = h[..., 0], h[..., 1], h[..., 2]
         poly = np.stack(
-            [np.stack([-hx, -hy], -1), np.stack([hx, -hy], -1),
-             np.stack([hx, hy], -1), np.stack([-hx, hy], -1)], axis=-2
+            [
+                np.stack([-hx, -hy], -1),
+                np.stack([hx, -hy], -1),
+                np.stack([hx, hy], -1),
+                np.stack([-hx, hy], -1),
+            ],
+            axis=-2,
         )
         axes = np.swapaxes(solid.rotation, -1, -2)
         return ("prism", (solid.centre, axes, poly, np.ones(poly.shape[:-1], bool), -hz, hz)), False
     if isinstance(solid, Plate):
         half = 0.5 * solid.thickness
         poly = solid.polygon_uv
-        return ("prism", (solid.origin, solid.axes, poly, np.ones(poly.shape[:-1], bool),
-                          -half, half)), False
+        return (
+            "prism",
+            (solid.origin, solid.axes, poly, np.ones(poly.shape[:-1], bool), -half, half),
+        ), False
     if isinstance(solid, Cylinder):
         d = solid.p1 - solid.p0
         length = np.linalg.norm(d, axis=-1)
@@ -88,7 +95,7 @@ def broadcast_part(part: Part, batch: tuple[int, ...], pieces: int | None) -> Pa
     kind, arrays = part
     out = []
     for arr, core in zip(arrays, CORE_NDIM[kind], strict=True):
-        core_shape = arr.shape[arr.ndim - core:]
+        core_shape = arr.shape[arr.ndim - core :]
         lead = batch if pieces is None else (*batch, pieces)
         out.append(np.broadcast_to(arr, lead + core_shape))
     return kind, tuple(out)
@@ -133,8 +140,11 @@ def motion_keypoints(solid: Solid) -> tuple[np.ndarray, np.ndarray, np.ndarray] 
     n = solid.batch_shape
     if isinstance(solid, Capsule):
         pts = np.stack(np.broadcast_arrays(solid.p0, solid.p1), axis=-2)
-        return (np.broadcast_to(pts, (*n, 2, 3)), np.broadcast_to(solid.radius, n),
-                np.zeros((*n, 3)))
+        return (
+            np.broadcast_to(pts, (*n, 2, 3)),
+            np.broadcast_to(solid.radius, n),
+            np.zeros((*n, 3)),
+        )
     if isinstance(solid, Cylinder):
         (_, arr), _ = part_of(solid)
         pts = np.stack(np.broadcast_arrays(solid.p0, solid.p1), axis=-2)
@@ -145,8 +155,10 @@ def motion_keypoints(solid: Solid) -> tuple[np.ndarray, np.ndarray, np.ndarray] 
     if isinstance(solid, Box):
         (_, arr), _ = part_of(solid)
         verts = kern.prism_vertices(
-            np.broadcast_to(arr[0], (*n, 3)), np.broadcast_to(arr[1], (*n, 3, 3)),
-            np.broadcast_to(arr[2], (*n, 4, 2)), np.broadcast_to(arr[4], n),
+            np.broadcast_to(arr[0], (*n, 3)),
+            np.broadcast_to(arr[1], (*n, 3, 3)),
+            np.broadcast_to(arr[2], (*n, 4, 2)),
+            np.broadcast_to(arr[4], n),
             np.broadcast_to(arr[5], n),
         )
         return verts, np.zeros(n), np.zeros((*n, 3))

@@ -112,8 +112,9 @@ def _order(a: Solid, b: Solid) -> tuple[Solid, Solid, bool]:
     """Put the pair in kernel order: a capsule first, else a plate, else a box."""
     for solid in (a, b):
         if not isinstance(solid, _SUPPORTED):
-            raise GeometryError("separation", "solids from plumbrod.geometry.shapes",
-                                type(solid).__name__)
+            raise GeometryError(
+                "separation", "solids from plumbrod.geometry.shapes", type(solid).__name__
+            )
     rank = {Capsule: 0, Plate: 1, Box: 2, Cylinder: 3, Prism: 4}
     ra, rb = rank[type(a)], rank[type(b)]
     first, second, swapped = (a, b, False) if ra <= rb else (b, a, True)
@@ -136,8 +137,12 @@ def _parts_for(a: Solid, b: Solid) -> tuple[parts.Part, parts.Part, tuple[int, .
         pb = parts.add_piece_axis(pb)
     batch = np.broadcast_shapes(parts.batch_of(pa, False), parts.batch_of(pb, True))
     count = pb[1][0].shape[-1 - parts.CORE_NDIM[pb[0]][0]]
-    return (parts.broadcast_part(pa, batch, None), parts.broadcast_part(pb, batch, count),
-            batch, count)
+    return (
+        parts.broadcast_part(pa, batch, None),
+        parts.broadcast_part(pb, batch, count),
+        batch,
+        count,
+    )
 
 
 def _own_part(solid: Solid, second: bool) -> tuple[parts.Part, int]:
@@ -161,7 +166,7 @@ def _flatten(part: parts.Part, extra: int) -> parts.Part:
     kind, arrays = part
     out = []
     for arr, core in zip(arrays, parts.CORE_NDIM[kind], strict=True):
-        keep = arr.shape[arr.ndim - core - extra:]
+        keep = arr.shape[arr.ndim - core - extra :]
         out.append(np.reshape(arr, (-1, *keep)))
     return kind, tuple(out)
 
@@ -258,8 +263,7 @@ def _prism_directions(arrays: tuple[np.ndarray, ...]) -> tuple[np.ndarray, np.nd
     ok = edge_ok[..., None]
     n3 = np.where(ok, normal[..., 0, None] * u + normal[..., 1, None] * v, 0.0)
     e3 = np.where(ok, edge[..., 0, None] * u + edge[..., 1, None] * v, 0.0)
-    return (np.concatenate([n3, axes[..., None, 2, :]], axis=-2),
-            np.concatenate([e3, w], axis=-2))
+    return (np.concatenate([n3, axes[..., None, 2, :]], axis=-2), np.concatenate([e3, w], axis=-2))
 
 
 def _radial(points: np.ndarray, c0: np.ndarray, axis: np.ndarray) -> np.ndarray:
@@ -363,8 +367,9 @@ def separation(a: Solid, b: Solid) -> Separation:
     sd, pa, pb, e = _evaluate(_flatten(part_a, 0), _flatten(part_b, 1))
     if swapped:
         pa, pb, e = pb, pa, -e
-    return Separation(sd.reshape(batch), pa.reshape(*batch, 3), pb.reshape(*batch, 3),
-                      e.reshape(*batch, 3))
+    return Separation(
+        sd.reshape(batch), pa.reshape(*batch, 3), pb.reshape(*batch, 3), e.reshape(*batch, 3)
+    )
 
 
 # ------------------------------------------------------------------ least over a sweep
@@ -404,8 +409,7 @@ class _Group:
         self.ids = np.asarray(self.pair_ids)
         kind, arr = self.a_stack
         self.a_verts = (
-            kern.prism_vertices(arr[0], arr[1], arr[2], arr[4], arr[5]) if kind == "prism"
-            else None
+            kern.prism_vertices(arr[0], arr[1], arr[2], arr[4], arr[5]) if kind == "prism" else None
         )
 
     def support_a(self, local: np.ndarray, pose: np.ndarray, e: np.ndarray) -> np.ndarray:
@@ -432,7 +436,7 @@ class _Group:
             items = []
             for _, arrs in plist:
                 arr = arrs[j]
-                tail = arr.shape[arr.ndim - core - extra:]
+                tail = arr.shape[arr.ndim - core - extra :]
                 items.append(np.broadcast_to(arr, (poses, *tail)))
             arrays.append(np.stack(items))
         return (kind, tuple(arrays)), moving
@@ -450,8 +454,9 @@ class _Group:
             return np.minimum(h0, h1) - radius[:, None]
         if kind == "cyl":
             c0, axis, length, radius = (x[solid, at, 0] for x in arr)
-            h, _ = kern.support_cyl(c0[:, None], axis[:, None], length[:, None],
-                                    radius[:, None], -e)
+            h, _ = kern.support_cyl(
+                c0[:, None], axis[:, None], length[:, None], radius[:, None], -e
+            )
             return -h
         b = (kind, tuple(x[solid, at][:, None] for x in arr))
         h, _ = parts.support(b, -e[:, :, None, :])
@@ -486,13 +491,19 @@ def _pose_count(pairs: Sequence[tuple[Solid, Solid]]) -> int:
         for solid in (a, b):
             shape = solid.batch_shape
             if len(shape) > 1:
-                raise GeometryError("least_separation", "solids with a pose batch (n,) or ()",
-                                    f"batch shape {shape}")
+                raise GeometryError(
+                    "least_separation",
+                    "solids with a pose batch (n,) or ()",
+                    f"batch shape {shape}",
+                )
             if shape:
                 counts.add(shape[0])
     if len(counts) > 1:
-        raise GeometryError("least_separations", "one pose count for every moving solid",
-                            f"pose counts {sorted(counts)}")
+        raise GeometryError(
+            "least_separations",
+            "one pose count for every moving solid",
+            f"pose counts {sorted(counts)}",
+        )
     return counts.pop() if counts else 1
 
 
@@ -573,8 +584,10 @@ def least_separations(
     for first, second in solid_ids:
         for solid in (first, second):
             if id(solid) not in bounds:
-                bounds[id(solid)] = (_motion_bounds(solid, samples[left]),
-                                     _motion_bounds(solid, samples[right]))
+                bounds[id(solid)] = (
+                    _motion_bounds(solid, samples[left]),
+                    _motion_bounds(solid, samples[right]),
+                )
     travel_l = np.stack([bounds[id(f)][0] + bounds[id(s)][0] for f, s in solid_ids])
     travel_r = np.stack([bounds[id(f)][1] + bounds[id(s)][1] for f, s in solid_ids])
     lower = np.maximum(sd_s[:, left] - travel_l, sd_s[:, right] - travel_r)
@@ -628,8 +641,11 @@ def least_separations(
         pa, pb = all_pa[k], all_pb[k]
         if swapped[i]:
             pa, pb = pb, pa
-        out.append(LeastSeparation(float(all_sd[k]), int(all_pose[k]), pa.copy(), pb.copy(),
-                                   int(counts[i]), n))
+        out.append(
+            LeastSeparation(
+                float(all_sd[k]), int(all_pose[k]), pa.copy(), pb.copy(), int(counts[i]), n
+            )
+        )
     return out
 
 

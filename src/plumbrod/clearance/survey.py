@@ -87,8 +87,11 @@ def zone_solids(analysis: Analysis) -> dict[str, tuple[Solid, float]]:
         limit = default if zone.clearance_mm is None else zone.clearance_mm
         solid: Solid
         if zone.kind == "box":
-            solid = Box(np.array(p["centre_mm"]), np.array(p["size_mm"]) / 2.0,
-                        _rotation_xyz(p["rotation_deg"]))  # type: ignore[arg-type]
+            solid = Box(
+                np.array(p["centre_mm"]),
+                np.array(p["size_mm"]) / 2.0,
+                _rotation_xyz(p["rotation_deg"]),
+            )  # type: ignore[arg-type]
         elif zone.kind == "cylinder":
             a, b = p["axis_mm"]  # type: ignore[misc]
             solid = Cylinder(np.array(a), np.array(b), float(p["radius_mm"]))  # type: ignore[arg-type]
@@ -120,9 +123,15 @@ def _moving_solids(analysis: Analysis, kins: list[Kinematics]) -> list[_Moving]:
         axis = (b - a) / np.linalg.norm(b - a, axis=-1, keepdims=True)
         grow = rod.rod_end_allowance_mm
         bodies = frozenset({design.pickups[rod.end_a].body, design.pickups[rod.end_b].body})
-        out.append(_Moving(f"rod '{rod.name}'", Capsule(a - grow * axis, b + grow * axis,
-                                                        rod.od_mm / 2.0),
-                           bodies, link.points[0, [ia, ib]], rod.name))
+        out.append(
+            _Moving(
+                f"rod '{rod.name}'",
+                Capsule(a - grow * axis, b + grow * axis, rod.od_mm / 2.0),
+                bodies,
+                link.points[0, [ia, ib]],
+                rod.name,
+            )
+        )
     for element in design.elements:
         env = element.envelope
         if env is None:
@@ -130,19 +139,34 @@ def _moving_solids(analysis: Analysis, kins: list[Kinematics]) -> list[_Moving]:
         b = link.body(element.name)
         r0 = _rotation_xyz(env.rotation_deg)
         centre = (rot[:, b] @ np.array(env.centre_mm)) + trans[:, b]
-        anchors = np.array([p.position_mm for p in design.pickups.values()
-                            if p.body == element.name])
-        out.append(_Moving(f"envelope of element '{element.name}'",
-                           Box(centre, np.array(env.size_mm) / 2.0, rot[:, b] @ r0),
-                           frozenset({element.name}), anchors.reshape(-1, 3), None))
+        anchors = np.array(
+            [p.position_mm for p in design.pickups.values() if p.body == element.name]
+        )
+        out.append(
+            _Moving(
+                f"envelope of element '{element.name}'",
+                Box(centre, np.array(env.size_mm) / 2.0, rot[:, b] @ r0),
+                frozenset({element.name}),
+                anchors.reshape(-1, 3),
+                None,
+            )
+        )
     for name, outline in rocker_outlines(design).items():
         b = link.body(name)
         verts = outline.vertices_3d(rot[:, b], trans[:, b], chord_tol_mm=0.5)
         rocker = next(r for r in design.rockers if r.name == name)
-        anchors = np.array([p.position_mm for p in design.pickups.values() if p.body == name]
-                           + [rocker.axis_a_mm])
-        out.append(_Moving(f"plate of rocker '{name}'", Plate(verts, outline.thickness_mm),
-                           frozenset({name, rocker.parent}), anchors, None))
+        anchors = np.array(
+            [p.position_mm for p in design.pickups.values() if p.body == name] + [rocker.axis_a_mm]
+        )
+        out.append(
+            _Moving(
+                f"plate of rocker '{name}'",
+                Plate(verts, outline.thickness_mm),
+                frozenset({name, rocker.parent}),
+                anchors,
+                None,
+            )
+        )
     return out
 
 
@@ -169,8 +193,11 @@ def clearance_report(analysis: Analysis) -> ClearanceReport:
         half = corner.tyre_width_mm / 2.0
         c0, s0 = np.array(corner.wheel_centre_mm), link.spin_axis[c]
         at_rest = Cylinder(c0 - half * s0, c0 + half * s0, corner.tyre_radius_mm)
-        tyres[f"tyre '{corner.name}'"] = (Cylinder(centre - half * spin, centre + half * spin,
-                                                   corner.tyre_radius_mm), default, at_rest)
+        tyres[f"tyre '{corner.name}'"] = (
+            Cylinder(centre - half * spin, centre + half * spin, corner.tyre_radius_mm),
+            default,
+            at_rest,
+        )
 
     pairs: list[tuple[Solid, Solid]] = []
     meta: list[tuple[str, str, float, str | None, str | None]] = []
@@ -186,29 +213,36 @@ def clearance_report(analysis: Analysis) -> ClearanceReport:
             pairs.append((m.solid, zone))
             meta.append((m.name, zname, limit, m.rod, None))
     for i, a in enumerate(moving):
-        for b in moving[i + 1:]:
+        for b in moving[i + 1 :]:
             if a.bodies & b.bodies:
                 continue
             pairs.append((a.solid, b.solid))
             meta.append((a.name, b.name, default, a.rod, b.rod))
     bounds = [_box_gap(_bounds(a), _bounds(b)) for a, b in pairs]
-    near = [i for i, (gap, m) in enumerate(zip(bounds, meta, strict=True))
-            if gap <= m[2] + FAR_MM]
-    results = dict(zip(near, least_separations([pairs[i] for i in near]), strict=True)) \
-        if near else {}
+    near = [i for i, (gap, m) in enumerate(zip(bounds, meta, strict=True)) if gap <= m[2] + FAR_MM]
+    results = (
+        dict(zip(near, least_separations([pairs[i] for i in near]), strict=True)) if near else {}
+    )
     out: list[ClearancePair] = []
     margins: dict[str, float] = {r.name: float("inf") for r in design.rods}
     for i, (a, b, limit, rod_a, rod_b) in enumerate(meta):
         res = results.get(i)
         if res is None:
-            pair = ClearancePair(a, b, bounds[i], limit, "", -1, (np.nan,) * 3,
-                                 (np.nan,) * 3, exact=False)  # type: ignore[arg-type]
+            pair = ClearancePair(
+                a, b, bounds[i], limit, "", -1, (np.nan,) * 3, (np.nan,) * 3, exact=False
+            )  # type: ignore[arg-type]
         else:
             sweep_index = int(np.searchsorted(starts, res.pose_index, side="right") - 1)
-            pair = ClearancePair(a, b, float(res.distance_mm), limit, names[sweep_index],
-                                 int(res.pose_index - starts[sweep_index]),
-                                 tuple(float(v) for v in res.point_a),  # type: ignore[arg-type]
-                                 tuple(float(v) for v in res.point_b))  # type: ignore[arg-type]
+            pair = ClearancePair(
+                a,
+                b,
+                float(res.distance_mm),
+                limit,
+                names[sweep_index],
+                int(res.pose_index - starts[sweep_index]),
+                tuple(float(v) for v in res.point_a),  # type: ignore[arg-type]
+                tuple(float(v) for v in res.point_b),
+            )  # type: ignore[arg-type]
         out.append(pair)
         for rod in (rod_a, rod_b):
             if rod is not None:
@@ -231,16 +265,18 @@ def _bounds(solid: Solid) -> tuple[Array, Array]:
     elif isinstance(solid, Box):
         signs = np.array([[i, j, k] for i in (-1, 1) for j in (-1, 1) for k in (-1, 1)])
         assert solid.rotation is not None
-        corners = np.einsum("...ij,cj->...ci", solid.rotation,
-                            signs * solid.half_size[..., None, :])
+        corners = np.einsum(
+            "...ij,cj->...ci", solid.rotation, signs * solid.half_size[..., None, :]
+        )
         pts = (solid.centre[..., None, :] + corners).reshape(-1, 3)
         grow = 0.0
     else:
         assert isinstance(solid, Prism)
         poly = np.concatenate(solid.pieces)
         lo_d, hi_d = solid.depth_min, solid.depth_max
-        pts = np.concatenate([poly[:, :1] * solid.u + poly[:, 1:] * solid.v + d * solid.w
-                              for d in (lo_d, hi_d)])
+        pts = np.concatenate(
+            [poly[:, :1] * solid.u + poly[:, 1:] * solid.v + d * solid.w for d in (lo_d, hi_d)]
+        )
         grow = 0.0
     return pts.min(axis=0) - grow, pts.max(axis=0) + grow
 
@@ -254,8 +290,11 @@ def _box_gap(a: tuple[Array, Array], b: tuple[Array, Array]) -> float:
 def _anchors_inside(moving: list[_Moving], zones: dict[str, Solid]) -> dict[str, list[bool]]:
     """For each zone (at the design pose), which moving solids have a joint inside it."""
     points = np.concatenate([m.anchors for m in moving]) if moving else np.zeros((0, 3))
-    owner = np.concatenate([np.full(len(m.anchors), i) for i, m in enumerate(moving)]) \
-        if moving else np.zeros(0, dtype=int)
+    owner = (
+        np.concatenate([np.full(len(m.anchors), i) for i, m in enumerate(moving)])
+        if moving
+        else np.zeros(0, dtype=int)
+    )
     out: dict[str, list[bool]] = {}
     for name, zone in zones.items():
         flags = [False] * len(moving)

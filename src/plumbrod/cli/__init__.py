@@ -9,6 +9,13 @@ inside ``run`` so that ``plumbrod --help`` and ``plumbrod check`` start fast.
 """
 
 COMMAND_MODULES: tuple[str, ...] = (
-    "check", "sweep", "plot", "column", "size", "export", "new", "demo",
+    "check",
+    "sweep",
+    "plot",
+    "column",
+    "size",
+    "export",
+    "new",
+    "demo",
 )
 """Verbs in the order ``--help`` lists them; a module missing here is not offered."""

@@ -25,10 +25,17 @@ def register(subparsers: Any) -> None:
         epilog=CAUTION,
     )
     parser.add_argument("design", help="design file (TOML); see `plumbrod new`")
-    parser.add_argument("--json", action="store_true",
-                        help="print the report as JSON (keys: design, checks, sweeps, ...)")
-    parser.add_argument("-o", "--output", metavar="FILE",
-                        help="also write the report to FILE (written whole, or not at all)")
+    parser.add_argument(
+        "--json",
+        action="store_true",
+        help="print the report as JSON (keys: design, checks, sweeps, ...)",
+    )
+    parser.add_argument(
+        "-o",
+        "--output",
+        metavar="FILE",
+        help="also write the report to FILE (written whole, or not at all)",
+    )
     parser.set_defaults(handler=run)
 
 

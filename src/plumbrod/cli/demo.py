@@ -24,8 +24,12 @@ def register(subparsers: Any) -> None:
         ),
         epilog=CAUTION,
     )
-    parser.add_argument("--output-dir", metavar="DIR", default="exports",
-                        help="folder for the files (default: exports)")
+    parser.add_argument(
+        "--output-dir",
+        metavar="DIR",
+        default="exports",
+        help="folder for the files (default: exports)",
+    )
     parser.set_defaults(handler=run)
 
 
@@ -48,12 +52,14 @@ def run(args: argparse.Namespace) -> int:
     analysis: Analysis = findings.analysis
     report = as_text(findings)
     sys.stdout.write(report)
-    written = write_many({
-        design_path: text,
-        out / f"{stem}-report.txt": report,
-        out / f"{stem}-report.json": as_json(findings),
-        out / f"{stem}-sweep.csv": table_csv(*pose_table(analysis)),
-    })
+    written = write_many(
+        {
+            design_path: text,
+            out / f"{stem}-report.txt": report,
+            out / f"{stem}-report.json": as_json(findings),
+            out / f"{stem}-sweep.csv": table_csv(*pose_table(analysis)),
+        }
+    )
     written += plot_findings(findings, out, stem)
     written += export_files(analysis, out, stem=stem)
     print("")

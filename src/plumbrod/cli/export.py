@@ -18,8 +18,7 @@ __all__ = ["export_files", "register", "run"]
 def register(subparsers: Any) -> None:
     parser = subparsers.add_parser(
         "export",
-        help="write DXF files: the design as a 3D wireframe and each rocker plate's cut "
-             "profile",
+        help="write DXF files: the design as a 3D wireframe and each rocker plate's cut profile",
         description=(
             "Solve the design, then write <name>-route.dxf (the design pose as a 3D "
             "wireframe in mm: rods, rocker axes, wishbones, tyres, zones, labelled "
@@ -31,18 +30,35 @@ def register(subparsers: Any) -> None:
         epilog=CAUTION,
     )
     parser.add_argument("design", help="design file (TOML); see `plumbrod new`")
-    parser.add_argument("--output-dir", metavar="DIR", default="exports",
-                        help="folder for the files (default: exports)")
-    parser.add_argument("--dxf-version", choices=("R2010", "R2000"), default="R2010",
-                        help="DXF version (default R2010; R2000 for older cutting software)")
-    parser.add_argument("--png", action="store_true",
-                        help="also write a PNG preview of each DXF file (3D designs seen "
-                             "isometric, planar designs in their own view)")
+    parser.add_argument(
+        "--output-dir",
+        metavar="DIR",
+        default="exports",
+        help="folder for the files (default: exports)",
+    )
+    parser.add_argument(
+        "--dxf-version",
+        choices=("R2010", "R2000"),
+        default="R2010",
+        help="DXF version (default R2010; R2000 for older cutting software)",
+    )
+    parser.add_argument(
+        "--png",
+        action="store_true",
+        help="also write a PNG preview of each DXF file (3D designs seen "
+        "isometric, planar designs in their own view)",
+    )
     parser.set_defaults(handler=run)
 
 
-def export_files(analysis: Analysis, folder: str | Path, *, dxf_version: str = "R2010",
-                 png: bool = False, stem: str | None = None) -> list[Path]:
+def export_files(
+    analysis: Analysis,
+    folder: str | Path,
+    *,
+    dxf_version: str = "R2010",
+    png: bool = False,
+    stem: str | None = None,
+) -> list[Path]:
     """Write the DXF files of a solved design (and PNG previews when ``png``) into
     ``folder``; every file is prepared before any is renamed into place.  Returns the
     paths written.  ``plumbrod demo`` can call this with the bundled example."""
@@ -66,13 +82,19 @@ def run(args: argparse.Namespace) -> int:
     from plumbrod.mechanics.analysis import analyse
 
     analysis = analyse(load_design(args.design))
-    written = export_files(analysis, args.output_dir, dxf_version=args.dxf_version,
-                           png=args.png, stem=Path(args.design).stem)
+    written = export_files(
+        analysis,
+        args.output_dir,
+        dxf_version=args.dxf_version,
+        png=args.png,
+        stem=Path(args.design).stem,
+    )
     for path in written:
         sys.stdout.write(f"wrote {path}\n")
     plates = sum(1 for p in written if "-plate-" in p.name and p.suffix == ".dxf")
     sys.stdout.write(
         f"units: mm; {plates} plate profile{'s' if plates != 1 else ''} (cut layers: "
         "CUT_PROFILE, CUT_HOLES). Check fits, webs and strength with a qualified engineer "
-        "before cutting.\n")
+        "before cutting.\n"
+    )
     return 0

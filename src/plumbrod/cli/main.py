@@ -24,7 +24,6 @@ EXIT_FAIL = 1
 EXIT_BAD_INPUT = 2
 
 
-
 def build_parser() -> argparse.ArgumentParser:
     """The top-level parser with one sub-parser per available command module."""
     parser = argparse.ArgumentParser(

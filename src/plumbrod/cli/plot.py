@@ -25,8 +25,12 @@ def register(subparsers: Any) -> None:
         epilog=CAUTION,
     )
     parser.add_argument("design", help="design file (TOML)")
-    parser.add_argument("--output-dir", metavar="DIR", default="exports",
-                        help="folder for the PNG files (default: exports)")
+    parser.add_argument(
+        "--output-dir",
+        metavar="DIR",
+        default="exports",
+        help="folder for the PNG files (default: exports)",
+    )
     parser.set_defaults(handler=run)
 
 

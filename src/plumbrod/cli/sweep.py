@@ -29,10 +29,16 @@ def register(subparsers: Any) -> None:
     )
     parser.add_argument("design", help="design file (TOML)")
     parser.add_argument("--csv", metavar="FILE", help="write the table as CSV to FILE")
-    parser.add_argument("--json", metavar="FILE",
-                        help="write the table as JSON to FILE ('-' prints it)")
-    parser.add_argument("--sweep", action="append", choices=SWEEP_NAMES, metavar="NAME",
-                        help="only this sweep (repeat for several): " + ", ".join(SWEEP_NAMES))
+    parser.add_argument(
+        "--json", metavar="FILE", help="write the table as JSON to FILE ('-' prints it)"
+    )
+    parser.add_argument(
+        "--sweep",
+        action="append",
+        choices=SWEEP_NAMES,
+        metavar="NAME",
+        help="only this sweep (repeat for several): " + ", ".join(SWEEP_NAMES),
+    )
     parser.set_defaults(handler=run)
 
 
@@ -49,8 +55,11 @@ def run(args: argparse.Namespace) -> int:
     if chosen:
         missing = [s for s in chosen if s not in analysis.sweeps]
         if missing:
-            raise UsageError("--sweep", f"the design has no '{missing[0]}' sweep",
-                             "use one of: " + ", ".join(analysis.sweeps))
+            raise UsageError(
+                "--sweep",
+                f"the design has no '{missing[0]}' sweep",
+                "use one of: " + ", ".join(analysis.sweeps),
+            )
     columns, rows = pose_table(analysis, chosen)
     files: dict[str, str] = {}
     csv_path = args.csv

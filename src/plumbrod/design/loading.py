@@ -102,14 +102,20 @@ class _Reader:
     ) -> dict[str, Any]:
         """Check that ``table`` is a table with only ``allowed`` keys and all ``required``."""
         if not isinstance(table, dict):
-            self.fail(key, f"expected a table, got {_type_name(table)} {_shown(table)}",
-                      f"write it as [{key}] with keys below it")
+            self.fail(
+                key,
+                f"expected a table, got {_type_name(table)} {_shown(table)}",
+                f"write it as [{key}] with keys below it",
+            )
         allowed = tuple(allowed)
         for name in table:
             if name not in allowed:
                 guess = difflib.get_close_matches(name, allowed, n=1, cutoff=0.6)
-                hint = f"did you mean '{guess[0]}'?" if guess else (
-                    "allowed keys: " + ", ".join(allowed))
+                hint = (
+                    f"did you mean '{guess[0]}'?"
+                    if guess
+                    else ("allowed keys: " + ", ".join(allowed))
+                )
                 self.fail(_join(key, name), "unknown key", hint)
         for name in required:
             if name not in table:
@@ -126,12 +132,16 @@ class _Reader:
         non_negative: bool = False,
     ) -> float:
         if isinstance(value, bool) or not isinstance(value, int | float):
-            self.fail(key, f"expected a number, got {_type_name(value)} {_shown(value)}",
-                      "write a plain number such as 12.5")
+            self.fail(
+                key,
+                f"expected a number, got {_type_name(value)} {_shown(value)}",
+                "write a plain number such as 12.5",
+            )
         number = float(value)
         if not math.isfinite(number):
-            self.fail(key, f"expected a finite number, got {value}",
-                      "replace inf/nan with a real value")
+            self.fail(
+                key, f"expected a finite number, got {value}", "replace inf/nan with a real value"
+            )
         if positive and number <= 0.0:
             self.fail(key, f"expected a positive number, got {value}", "use a value above 0")
         if non_negative and number < 0.0:
@@ -140,36 +150,54 @@ class _Reader:
 
     def integer(self, value: Any, key: str, *, minimum: int = 1) -> int:
         if isinstance(value, bool) or not isinstance(value, int):
-            self.fail(key, f"expected a whole number, got {_type_name(value)} {_shown(value)}",
-                      f"write a whole number of at least {minimum}")
+            self.fail(
+                key,
+                f"expected a whole number, got {_type_name(value)} {_shown(value)}",
+                f"write a whole number of at least {minimum}",
+            )
         if value < minimum:
-            self.fail(key, f"expected at least {minimum}, got {value}",
-                      f"use a whole number of at least {minimum}")
+            self.fail(
+                key,
+                f"expected at least {minimum}, got {value}",
+                f"use a whole number of at least {minimum}",
+            )
         return int(value)
 
     def string(self, value: Any, key: str, choices: Iterable[str] | None = None) -> str:
         if not isinstance(value, str):
-            self.fail(key, f"expected a string, got {_type_name(value)} {_shown(value)}",
-                      'put the text in double quotes')
+            self.fail(
+                key,
+                f"expected a string, got {_type_name(value)} {_shown(value)}",
+                "put the text in double quotes",
+            )
         if choices is not None:
             choices = tuple(choices)
             if value not in choices:
                 guess = difflib.get_close_matches(value, choices, n=1, cutoff=0.5)
-                hint = f"did you mean '{guess[0]}'?" if guess else (
-                    "use one of: " + ", ".join(f"'{c}'" for c in choices))
+                hint = (
+                    f"did you mean '{guess[0]}'?"
+                    if guess
+                    else ("use one of: " + ", ".join(f"'{c}'" for c in choices))
+                )
                 self.fail(key, f"'{value}' is not allowed", hint)
         return value
 
     def boolean(self, value: Any, key: str) -> bool:
         if not isinstance(value, bool):
-            self.fail(key, f"expected true or false, got {_type_name(value)} {_shown(value)}",
-                      "write true or false without quotes")
+            self.fail(
+                key,
+                f"expected true or false, got {_type_name(value)} {_shown(value)}",
+                "write true or false without quotes",
+            )
         return value
 
     def name(self, value: str, key: str) -> str:
         if not NAME_PATTERN.match(value):
-            self.fail(key, f"the name '{value}' has characters other than letters, digits, "
-                      "'_' and '-'", "rename it (dots separate a body from its pickup)")
+            self.fail(
+                key,
+                f"the name '{value}' has characters other than letters, digits, '_' and '-'",
+                "rename it (dots separate a body from its pickup)",
+            )
         if value == CHASSIS:
             self.fail(key, "'chassis' is the reference body's name", "choose another name")
         return value
@@ -177,10 +205,14 @@ class _Reader:
     # -- vectors ------------------------------------------------------------------
     def numbers(self, value: Any, key: str, count: int, what: str) -> tuple[float, ...]:
         if not isinstance(value, list) or len(value) != count:
-            got = f"{len(value)} values" if isinstance(value, list) else (
-                f"{_type_name(value)} {_shown(value)}")
-            self.fail(key, f"expected {what}, got {got}",
-                      f"write {count} numbers in square brackets")
+            got = (
+                f"{len(value)} values"
+                if isinstance(value, list)
+                else (f"{_type_name(value)} {_shown(value)}")
+            )
+            self.fail(
+                key, f"expected {what}, got {got}", f"write {count} numbers in square brackets"
+            )
         return tuple(self.number(v, f"{key}[{i}]") for i, v in enumerate(value))
 
     def point(self, value: Any, key: str) -> Vec3:
@@ -249,28 +281,42 @@ def load_design(path: str | Path) -> Design:
     shown = str(path)
     file = Path(path)
     if not file.exists():
-        raise DesignFileError(shown, "", "no such file",
-                              "check the path, or write a starter with `plumbrod new FILE`")
+        raise DesignFileError(
+            shown, "", "no such file", "check the path, or write a starter with `plumbrod new FILE`"
+        )
     if file.is_dir():
-        raise DesignFileError(shown, "", "this is a folder, not a design file",
-                              "give the path of a .toml file inside it")
+        raise DesignFileError(
+            shown,
+            "",
+            "this is a folder, not a design file",
+            "give the path of a .toml file inside it",
+        )
     try:
         raw = file.read_bytes()
     except OSError as exc:
-        raise DesignFileError(shown, "", f"cannot be read ({exc.strerror})",
-                              "check the file's permissions") from None
+        raise DesignFileError(
+            shown, "", f"cannot be read ({exc.strerror})", "check the file's permissions"
+        ) from None
     if not raw.strip():
-        raise DesignFileError(shown, "", "the file is empty",
-                              "write a starter design with `plumbrod new FILE`")
+        raise DesignFileError(
+            shown, "", "the file is empty", "write a starter design with `plumbrod new FILE`"
+        )
     if b"\x00" in raw:
-        raise DesignFileError(shown, "", "this is a binary file, not a TOML design file",
-                              "give the path of a text .toml file")
+        raise DesignFileError(
+            shown,
+            "",
+            "this is a binary file, not a TOML design file",
+            "give the path of a text .toml file",
+        )
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError as exc:
         raise DesignFileError(
-            shown, "", f"not UTF-8 text (bad byte at offset {exc.start})",
-            "save the file as UTF-8 text") from None
+            shown,
+            "",
+            f"not UTF-8 text (bad byte at offset {exc.start})",
+            "save the file as UTF-8 text",
+        ) from None
     return parse_design(text, shown)
 
 
@@ -285,18 +331,22 @@ def parse_design(text: str, source: str = "<design>") -> Design:
         message = str(exc)
         if message.endswith("(at end of document)"):
             lines = text.splitlines() or [""]
-            message = (f"{message[: -len('(at end of document)')].rstrip()} (at line "
-                       f"{len(lines)}, column {len(lines[-1]) + 1})")
+            message = (
+                f"{message[: -len('(at end of document)')].rstrip()} (at line "
+                f"{len(lines)}, column {len(lines[-1]) + 1})"
+            )
         match = _TOML_POSITION.match(message)
         if match:
             what = match["what"].rstrip(".") or "invalid TOML"
             raise DesignFileError(
-                source, f"line {match['line']}, column {match['col']}",
+                source,
+                f"line {match['line']}, column {match['col']}",
                 f"invalid TOML: {what[0].lower()}{what[1:]}",
                 "check the quotes, brackets, commas and '=' there; a key may appear once",
             ) from None
-        raise DesignFileError(source, "", f"invalid TOML: {message}",
-                              "check the file's syntax") from None
+        raise DesignFileError(
+            source, "", f"invalid TOML: {message}", "check the file's syntax"
+        ) from None
     return _DesignBuilder(source).build(data)
 
 
@@ -305,9 +355,14 @@ def parse_design(text: str, source: str = "<design>") -> Design:
 # ---------------------------------------------------------------------------------
 
 _WISHBONE_KEYS_3D = (
-    "upper_front_mm", "upper_rear_mm", "upper_outer_mm",
-    "lower_front_mm", "lower_rear_mm", "lower_outer_mm",
-    "tie_rod_inner_mm", "tie_rod_outer_mm",
+    "upper_front_mm",
+    "upper_rear_mm",
+    "upper_outer_mm",
+    "lower_front_mm",
+    "lower_rear_mm",
+    "lower_outer_mm",
+    "tie_rod_inner_mm",
+    "tie_rod_outer_mm",
 )
 _WISHBONE_KEYS_FRONT = ("upper_inner_mm", "upper_outer_mm", "lower_inner_mm", "lower_outer_mm")
 _CORNER_BODY_PARTS = {"slider": ("upright",), "double_wishbone": ("upright", "upper", "lower")}
@@ -324,8 +379,12 @@ class _DesignBuilder:
     def build(self, data: dict[str, Any]) -> Design:
         r = self.r
         r.keys(data, "", TOP_LEVEL_KEYS, required=("design", "corners", "elements"))
-        head = r.keys(data["design"], "design",
-                      ("name", "note", "plane", "mirror", "top_speed_kmh"), required=("name",))
+        head = r.keys(
+            data["design"],
+            "design",
+            ("name", "note", "plane", "mirror", "top_speed_kmh"),
+            required=("name",),
+        )
         name = r.string(head["name"], "design.name")
         note = r.string(head.get("note", ""), "design.note")
         plane = None
@@ -336,8 +395,11 @@ class _DesignBuilder:
         if "top_speed_kmh" in head:
             top_speed = r.number(head["top_speed_kmh"], "design.top_speed_kmh", positive=True)
         if mirror and plane == "side":
-            r.fail("design.mirror", "a side-view planar design has no left and right",
-                   "remove mirror, or use plane = \"front\"")
+            r.fail(
+                "design.mirror",
+                "a side-view planar design has no left and right",
+                'remove mirror, or use plane = "front"',
+            )
         r.plane = plane
 
         self._chassis(data.get("chassis", {}))
@@ -352,11 +414,21 @@ class _DesignBuilder:
         zones = self._zones(data.get("zones", {}))
 
         design = Design(
-            name=name, source=self.source, plane=plane, corners=tuple(corners),
-            rockers=tuple(rockers), rods=tuple(rods), elements=tuple(elements),
-            pickups=dict(self.pickups), sweeps=sweeps, limits=limits,
-            load_cases=tuple(load_cases), materials=tuple(materials), zones=tuple(zones),
-            note=note, top_speed_kmh=top_speed,
+            name=name,
+            source=self.source,
+            plane=plane,
+            corners=tuple(corners),
+            rockers=tuple(rockers),
+            rods=tuple(rods),
+            elements=tuple(elements),
+            pickups=dict(self.pickups),
+            sweeps=sweeps,
+            limits=limits,
+            load_cases=tuple(load_cases),
+            materials=tuple(materials),
+            zones=tuple(zones),
+            note=note,
+            top_speed_kmh=top_speed,
         )
         if mirror:
             design = _mirrored(design, self.r, self.pickup_where)
@@ -368,15 +440,21 @@ class _DesignBuilder:
     def _add_pickups(self, body: str, table: Any, key: str) -> None:
         r = self.r
         if not isinstance(table, dict):
-            r.fail(key, f"expected a table of named points, got {_type_name(table)}",
-                   "write name = [x, y, z] lines under it")
+            r.fail(
+                key,
+                f"expected a table of named points, got {_type_name(table)}",
+                "write name = [x, y, z] lines under it",
+            )
         for pname, value in table.items():
             pkey = _join(key, pname)
             r.name(pname, pkey)
             full = f"{body}.{pname}"
             if full in self.pickups:
-                r.fail(pkey, f"pickup '{full}' is defined twice "
-                       f"(also at {self.pickup_where[full]})", "rename one of them")
+                r.fail(
+                    pkey,
+                    f"pickup '{full}' is defined twice (also at {self.pickup_where[full]})",
+                    "rename one of them",
+                )
             self.pickups[full] = Pickup(body, pname, r.point(value, pkey))
             self.pickup_where[full] = pkey
 
@@ -388,42 +466,67 @@ class _DesignBuilder:
     def _corners(self, table: Any) -> list[Corner]:
         r = self.r
         if not isinstance(table, dict) or not table:
-            r.fail("corners", "expected at least one [corners.<name>] table",
-                   "add one per wheel the routes reach")
+            r.fail(
+                "corners",
+                "expected at least one [corners.<name>] table",
+                "add one per wheel the routes reach",
+            )
         corners = []
         for cname, ctable in table.items():
             key = _join("corners", cname)
             r.name(cname, key)
-            r.keys(ctable, key,
-                   ("wheel_centre_mm", "tyre_radius_mm", "tyre_width_mm", "suspension",
-                    "wishbones", "unsprung_mass_kg", "pickups"),
-                   required=("wheel_centre_mm", "tyre_radius_mm", "tyre_width_mm",
-                             "suspension"))
-            suspension = r.string(ctable["suspension"], f"{key}.suspension",
-                                  ("slider", "double_wishbone"))
+            r.keys(
+                ctable,
+                key,
+                (
+                    "wheel_centre_mm",
+                    "tyre_radius_mm",
+                    "tyre_width_mm",
+                    "suspension",
+                    "wishbones",
+                    "unsprung_mass_kg",
+                    "pickups",
+                ),
+                required=("wheel_centre_mm", "tyre_radius_mm", "tyre_width_mm", "suspension"),
+            )
+            suspension = r.string(
+                ctable["suspension"], f"{key}.suspension", ("slider", "double_wishbone")
+            )
             wishbones = None
             if suspension == "double_wishbone":
                 if "wishbones" not in ctable:
-                    r.fail(f"{key}.wishbones", "missing key",
-                           "add a [" + key + ".wishbones] table with the hardpoints")
+                    r.fail(
+                        f"{key}.wishbones",
+                        "missing key",
+                        "add a [" + key + ".wishbones] table with the hardpoints",
+                    )
                 wishbones = self._wishbones(ctable["wishbones"], f"{key}.wishbones")
             elif "wishbones" in ctable:
-                r.fail(f"{key}.wishbones", "a slider corner has no wishbones",
-                       'remove the table, or set suspension = "double_wishbone"')
+                r.fail(
+                    f"{key}.wishbones",
+                    "a slider corner has no wishbones",
+                    'remove the table, or set suspension = "double_wishbone"',
+                )
             if r.plane == "side" and suspension == "double_wishbone":
-                r.fail(f"{key}.suspension", "a side-view planar design cannot hold wishbones",
-                       'use suspension = "slider", or plane = "front"')
+                r.fail(
+                    f"{key}.suspension",
+                    "a side-view planar design cannot hold wishbones",
+                    'use suspension = "slider", or plane = "front"',
+                )
             unsprung = None
             if "unsprung_mass_kg" in ctable:
-                unsprung = r.number(ctable["unsprung_mass_kg"], f"{key}.unsprung_mass_kg",
-                                    non_negative=True)
+                unsprung = r.number(
+                    ctable["unsprung_mass_kg"], f"{key}.unsprung_mass_kg", non_negative=True
+                )
             corner = Corner(
                 name=cname,
                 wheel_centre_mm=r.point(ctable["wheel_centre_mm"], f"{key}.wheel_centre_mm"),
-                tyre_radius_mm=r.number(ctable["tyre_radius_mm"], f"{key}.tyre_radius_mm",
-                                        positive=True),
-                tyre_width_mm=r.number(ctable["tyre_width_mm"], f"{key}.tyre_width_mm",
-                                       positive=True),
+                tyre_radius_mm=r.number(
+                    ctable["tyre_radius_mm"], f"{key}.tyre_radius_mm", positive=True
+                ),
+                tyre_width_mm=r.number(
+                    ctable["tyre_width_mm"], f"{key}.tyre_width_mm", positive=True
+                ),
                 suspension=suspension,  # type: ignore[arg-type]
                 wishbones=wishbones,
                 unsprung_mass_kg=unsprung,
@@ -465,8 +568,12 @@ class _DesignBuilder:
             key = _join("rockers", name)
             r.name(name, key)
             axis_key = "pivot_mm" if r.plane else "axis_mm"
-            r.keys(rtable, key, ("parent", axis_key, "pickups", "mass_kg", "plate"),
-                   required=("parent", axis_key, "pickups"))
+            r.keys(
+                rtable,
+                key,
+                ("parent", axis_key, "pickups", "mass_kg", "plate"),
+                required=("parent", axis_key, "pickups"),
+            )
             parent = r.string(rtable["parent"], f"{key}.parent")
             if r.plane:
                 pivot = r.point(rtable["pivot_mm"], f"{key}.pivot_mm")
@@ -476,9 +583,12 @@ class _DesignBuilder:
             else:
                 axis = rtable["axis_mm"]
                 if not isinstance(axis, list) or len(axis) != 2:
-                    r.fail(f"{key}.axis_mm", "expected two points on the pivot axis, "
-                           f"got {_type_name(axis)} {_shown(axis)}",
-                           "write [[x, y, z], [x, y, z]]")
+                    r.fail(
+                        f"{key}.axis_mm",
+                        "expected two points on the pivot axis, "
+                        f"got {_type_name(axis)} {_shown(axis)}",
+                        "write [[x, y, z], [x, y, z]]",
+                    )
                 axis_a = r.point(axis[0], f"{key}.axis_mm[0]")
                 axis_b = r.point(axis[1], f"{key}.axis_mm[1]")
             mass = None
@@ -493,88 +603,133 @@ class _DesignBuilder:
 
     def _plate(self, table: Any, key: str) -> PlateSpec:
         r = self.r
-        r.keys(table, key, ("thickness_mm", "material", "pivot_hole_mm", "hole_mm",
-                            "holes_mm", "edge_margin_mm"),
-               required=("thickness_mm", "material"))
+        r.keys(
+            table,
+            key,
+            ("thickness_mm", "material", "pivot_hole_mm", "hole_mm", "holes_mm", "edge_margin_mm"),
+            required=("thickness_mm", "material"),
+        )
         holes = table.get("holes_mm", {})
         r.keys(holes, f"{key}.holes_mm", tuple(holes) if isinstance(holes, dict) else ())
         return PlateSpec(
             thickness_mm=r.number(table["thickness_mm"], f"{key}.thickness_mm", positive=True),
             material=r.string(table["material"], f"{key}.material"),
-            pivot_hole_mm=r.number(table.get("pivot_hole_mm", 10.0), f"{key}.pivot_hole_mm",
-                                   positive=True),
+            pivot_hole_mm=r.number(
+                table.get("pivot_hole_mm", 10.0), f"{key}.pivot_hole_mm", positive=True
+            ),
             hole_mm=r.number(table.get("hole_mm", 8.0), f"{key}.hole_mm", positive=True),
-            edge_margin_mm=r.number(table.get("edge_margin_mm", 6.0), f"{key}.edge_margin_mm",
-                                    positive=True),
-            holes_mm={k: r.number(v, f"{key}.holes_mm.{k}", positive=True)
-                      for k, v in holes.items()},
+            edge_margin_mm=r.number(
+                table.get("edge_margin_mm", 6.0), f"{key}.edge_margin_mm", positive=True
+            ),
+            holes_mm={
+                k: r.number(v, f"{key}.holes_mm.{k}", positive=True) for k, v in holes.items()
+            },
         )
 
     # -- elements -----------------------------------------------------------------
     def _elements(self, table: Any) -> list[Element]:
         r = self.r
         if not isinstance(table, dict) or not table:
-            r.fail("elements", "expected at least one [elements.<name>] table",
-                   "add the wing, splitter or undertray the routes carry")
+            r.fail(
+                "elements",
+                "expected at least one [elements.<name>] table",
+                "add the wing, splitter or undertray the routes carry",
+            )
         elements = []
         for name, etable in table.items():
             key = _join("elements", name)
             r.name(name, key)
-            r.keys(etable, key,
-                   ("kind", "mass_kg", "cg_mm", "centre_of_pressure_mm", "pickups", "aero",
-                    "inertia_kg_m2", "envelope"),
-                   required=("mass_kg", "cg_mm", "centre_of_pressure_mm", "pickups"))
+            r.keys(
+                etable,
+                key,
+                (
+                    "kind",
+                    "mass_kg",
+                    "cg_mm",
+                    "centre_of_pressure_mm",
+                    "pickups",
+                    "aero",
+                    "inertia_kg_m2",
+                    "envelope",
+                ),
+                required=("mass_kg", "cg_mm", "centre_of_pressure_mm", "pickups"),
+            )
             aero = None
             if "aero" in etable:
                 akey = f"{key}.aero"
-                atable = r.keys(etable["aero"], akey,
-                                ("reference_area_m2", "downforce_coefficient",
-                                 "drag_coefficient"),
-                                required=("reference_area_m2", "downforce_coefficient",
-                                          "drag_coefficient"))
+                atable = r.keys(
+                    etable["aero"],
+                    akey,
+                    ("reference_area_m2", "downforce_coefficient", "drag_coefficient"),
+                    required=("reference_area_m2", "downforce_coefficient", "drag_coefficient"),
+                )
                 aero = AeroData(
-                    reference_area_m2=r.number(atable["reference_area_m2"],
-                                               f"{akey}.reference_area_m2", positive=True),
-                    downforce_coefficient=r.number(atable["downforce_coefficient"],
-                                                   f"{akey}.downforce_coefficient"),
-                    drag_coefficient=r.number(atable["drag_coefficient"],
-                                              f"{akey}.drag_coefficient", non_negative=True),
+                    reference_area_m2=r.number(
+                        atable["reference_area_m2"], f"{akey}.reference_area_m2", positive=True
+                    ),
+                    downforce_coefficient=r.number(
+                        atable["downforce_coefficient"], f"{akey}.downforce_coefficient"
+                    ),
+                    drag_coefficient=r.number(
+                        atable["drag_coefficient"], f"{akey}.drag_coefficient", non_negative=True
+                    ),
                 )
             inertia = None
             if "inertia_kg_m2" in etable:
-                values = r.numbers(etable["inertia_kg_m2"], f"{key}.inertia_kg_m2", 3,
-                                   "[Ixx, Iyy, Izz] in kg·m²")
+                values = r.numbers(
+                    etable["inertia_kg_m2"], f"{key}.inertia_kg_m2", 3, "[Ixx, Iyy, Izz] in kg·m²"
+                )
                 for i, v in enumerate(values):
                     if v < 0:
-                        r.fail(f"{key}.inertia_kg_m2[{i}]", f"expected zero or more, got {v}",
-                               "moments of inertia cannot be negative")
+                        r.fail(
+                            f"{key}.inertia_kg_m2[{i}]",
+                            f"expected zero or more, got {v}",
+                            "moments of inertia cannot be negative",
+                        )
                 inertia = _as3(values)
             envelope = None
             if "envelope" in etable:
                 vkey = f"{key}.envelope"
-                vtable = r.keys(etable["envelope"], vkey, ("centre_mm", "size_mm",
-                                                           "rotation_deg"),
-                                required=("centre_mm", "size_mm"))
+                vtable = r.keys(
+                    etable["envelope"],
+                    vkey,
+                    ("centre_mm", "size_mm", "rotation_deg"),
+                    required=("centre_mm", "size_mm"),
+                )
                 size = r.numbers(vtable["size_mm"], f"{vkey}.size_mm", 3, "[lx, ly, lz] in mm")
                 for i, v in enumerate(size):
                     if v <= 0:
-                        r.fail(f"{vkey}.size_mm[{i}]", f"expected a positive size, got {v}",
-                               "give the box's full length along each axis")
+                        r.fail(
+                            f"{vkey}.size_mm[{i}]",
+                            f"expected a positive size, got {v}",
+                            "give the box's full length along each axis",
+                        )
                 envelope = Envelope(
                     centre_mm=r.zone_point(vtable["centre_mm"], f"{vkey}.centre_mm"),
                     size_mm=_as3(size),
-                    rotation_deg=_as3(r.numbers(vtable.get("rotation_deg", [0, 0, 0]),
-                                                f"{vkey}.rotation_deg", 3,
-                                                "[about x, about y, about z] in degrees")))
-            elements.append(Element(
-                name=name, inertia_kg_m2=inertia, envelope=envelope,
-                kind=r.string(etable.get("kind", "other"), f"{key}.kind", ELEMENT_KINDS),
-                mass_kg=r.number(etable["mass_kg"], f"{key}.mass_kg", non_negative=True),
-                cg_mm=r.point(etable["cg_mm"], f"{key}.cg_mm"),
-                centre_of_pressure_mm=r.point(etable["centre_of_pressure_mm"],
-                                              f"{key}.centre_of_pressure_mm"),
-                aero=aero,
-            ))
+                    rotation_deg=_as3(
+                        r.numbers(
+                            vtable.get("rotation_deg", [0, 0, 0]),
+                            f"{vkey}.rotation_deg",
+                            3,
+                            "[about x, about y, about z] in degrees",
+                        )
+                    ),
+                )
+            elements.append(
+                Element(
+                    name=name,
+                    inertia_kg_m2=inertia,
+                    envelope=envelope,
+                    kind=r.string(etable.get("kind", "other"), f"{key}.kind", ELEMENT_KINDS),
+                    mass_kg=r.number(etable["mass_kg"], f"{key}.mass_kg", non_negative=True),
+                    cg_mm=r.point(etable["cg_mm"], f"{key}.cg_mm"),
+                    centre_of_pressure_mm=r.point(
+                        etable["centre_of_pressure_mm"], f"{key}.centre_of_pressure_mm"
+                    ),
+                    aero=aero,
+                )
+            )
             self._add_pickups(name, etable["pickups"], f"{key}.pickups")
         return elements
 
@@ -586,57 +741,92 @@ class _DesignBuilder:
         for name, rtable in table.items():
             key = _join("rods", name)
             r.name(name, key)
-            r.keys(rtable, key,
-                   ("ends", "material", "od_mm", "wall_mm", "solid", "end_fixity",
-                    "rod_end_rating_N", "rod_end_allowance_mm"),
-                   required=("ends", "material", "od_mm"))
+            r.keys(
+                rtable,
+                key,
+                (
+                    "ends",
+                    "material",
+                    "od_mm",
+                    "wall_mm",
+                    "solid",
+                    "end_fixity",
+                    "rod_end_rating_N",
+                    "rod_end_allowance_mm",
+                ),
+                required=("ends", "material", "od_mm"),
+            )
             ends = rtable["ends"]
-            if (not isinstance(ends, list) or len(ends) != 2
-                    or not all(isinstance(e, str) for e in ends)):
-                r.fail(f"{key}.ends", f"expected two pickup names, got {_shown(ends)}",
-                       'write ends = ["body.pickup", "body.pickup"]')
+            if (
+                not isinstance(ends, list)
+                or len(ends) != 2
+                or not all(isinstance(e, str) for e in ends)
+            ):
+                r.fail(
+                    f"{key}.ends",
+                    f"expected two pickup names, got {_shown(ends)}",
+                    'write ends = ["body.pickup", "body.pickup"]',
+                )
             od = r.number(rtable["od_mm"], f"{key}.od_mm", positive=True)
             solid = r.boolean(rtable.get("solid", False), f"{key}.solid")
             wall: float | None
             if solid:
                 if "wall_mm" in rtable:
-                    r.fail(f"{key}.wall_mm", "a solid bar has no wall",
-                           "remove wall_mm, or remove solid = true for a tube")
+                    r.fail(
+                        f"{key}.wall_mm",
+                        "a solid bar has no wall",
+                        "remove wall_mm, or remove solid = true for a tube",
+                    )
                 wall = None
             else:
                 if "wall_mm" not in rtable:
-                    r.fail(f"{key}.wall_mm", "missing key",
-                           "add the tube wall in mm, or solid = true for a bar")
+                    r.fail(
+                        f"{key}.wall_mm",
+                        "missing key",
+                        "add the tube wall in mm, or solid = true for a bar",
+                    )
                 wall = r.number(rtable["wall_mm"], f"{key}.wall_mm", positive=True)
                 if wall >= od / 2.0:
-                    r.fail(f"{key}.wall_mm", f"expected a wall below half the OD ({od / 2} mm), "
-                           f"got {wall}", "check the wall, or use solid = true")
+                    r.fail(
+                        f"{key}.wall_mm",
+                        f"expected a wall below half the OD ({od / 2} mm), got {wall}",
+                        "check the wall, or use solid = true",
+                    )
             rating = None
             if "rod_end_rating_N" in rtable:
-                rating = r.number(rtable["rod_end_rating_N"], f"{key}.rod_end_rating_N",
-                                  positive=True)
-            rods.append(Rod(
-                name=name, end_a=ends[0], end_b=ends[1],
-                material=r.string(rtable["material"], f"{key}.material"),
-                od_mm=od, wall_mm=wall,
-                end_fixity=r.number(rtable.get("end_fixity", 1.0), f"{key}.end_fixity",
-                                    positive=True),
-                rod_end_rating_N=rating,
-                rod_end_allowance_mm=r.number(rtable.get("rod_end_allowance_mm", 0.0),
-                                              f"{key}.rod_end_allowance_mm",
-                                              non_negative=True),
-            ))
+                rating = r.number(
+                    rtable["rod_end_rating_N"], f"{key}.rod_end_rating_N", positive=True
+                )
+            rods.append(
+                Rod(
+                    name=name,
+                    end_a=ends[0],
+                    end_b=ends[1],
+                    material=r.string(rtable["material"], f"{key}.material"),
+                    od_mm=od,
+                    wall_mm=wall,
+                    end_fixity=r.number(
+                        rtable.get("end_fixity", 1.0), f"{key}.end_fixity", positive=True
+                    ),
+                    rod_end_rating_N=rating,
+                    rod_end_allowance_mm=r.number(
+                        rtable.get("rod_end_allowance_mm", 0.0),
+                        f"{key}.rod_end_allowance_mm",
+                        non_negative=True,
+                    ),
+                )
+            )
         return rods
 
     # -- sweeps and limits --------------------------------------------------------
     def _sweeps(self, table: Any, plane: str | None) -> Sweeps:
         r = self.r
-        r.keys(table, "sweeps", ("travel", "heave", "roll", "pitch", "heave_roll",
-                                 "motion_centre_mm"))
+        r.keys(
+            table, "sweeps", ("travel", "heave", "roll", "pitch", "heave_roll", "motion_centre_mm")
+        )
         defaults = Sweeps()
         values: dict[str, Any] = {}
-        for kind, unit in (("travel", "mm"), ("heave", "mm"), ("roll", "deg"),
-                           ("pitch", "deg")):
+        for kind, unit in (("travel", "mm"), ("heave", "mm"), ("roll", "deg"), ("pitch", "deg")):
             range_key = f"range_{unit}"
             if kind not in table:
                 continue
@@ -651,32 +841,45 @@ class _DesignBuilder:
                 values[f"{kind}_steps"] = r.integer(sub["steps"], f"{key}.steps", minimum=3)
         if plane == "side":
             if table.get("roll", {}).get("enabled", False):
-                r.fail("sweeps.roll", "a side-view planar design cannot roll",
-                       "remove [sweeps.roll]")
+                r.fail(
+                    "sweeps.roll", "a side-view planar design cannot roll", "remove [sweeps.roll]"
+                )
             values["roll_deg"] = None
         if plane == "front":
             if table.get("pitch", {}).get("enabled", False):
-                r.fail("sweeps.pitch", "a front-view planar design cannot pitch",
-                       "remove [sweeps.pitch]")
+                r.fail(
+                    "sweeps.pitch",
+                    "a front-view planar design cannot pitch",
+                    "remove [sweeps.pitch]",
+                )
             values["pitch_deg"] = None
         if "heave_roll" in table:
             key = "sweeps.heave_roll"
             sub = r.keys(table["heave_roll"], key, ("steps",), required=("steps",))
             steps = sub["steps"]
             if not isinstance(steps, list) or len(steps) != 2:
-                r.fail(f"{key}.steps", f"expected [heave steps, roll steps], got {_shown(steps)}",
-                       "write steps = [41, 41]")
+                r.fail(
+                    f"{key}.steps",
+                    f"expected [heave steps, roll steps], got {_shown(steps)}",
+                    "write steps = [41, 41]",
+                )
             if plane == "side":
                 r.fail(key, "a side-view planar design cannot roll", "remove [sweeps.heave_roll]")
-            values["heave_roll_steps"] = (r.integer(steps[0], f"{key}.steps[0]", minimum=3),
-                                          r.integer(steps[1], f"{key}.steps[1]", minimum=3))
+            values["heave_roll_steps"] = (
+                r.integer(steps[0], f"{key}.steps[0]", minimum=3),
+                r.integer(steps[1], f"{key}.steps[1]", minimum=3),
+            )
         if "motion_centre_mm" in table:
-            values["motion_centre_mm"] = r.point(table["motion_centre_mm"],
-                                                 "sweeps.motion_centre_mm")
+            values["motion_centre_mm"] = r.point(
+                table["motion_centre_mm"], "sweeps.motion_centre_mm"
+            )
         sweeps = Sweeps(**{**defaults.__dict__, **values})
         if sweeps.heave_roll_steps and (sweeps.heave_mm is None or sweeps.roll_deg is None):
-            r.fail("sweeps.heave_roll", "the grid needs both the heave and the roll range",
-                   "enable [sweeps.heave] and [sweeps.roll]")
+            r.fail(
+                "sweeps.heave_roll",
+                "the grid needs both the heave and the roll range",
+                "enable [sweeps.heave] and [sweeps.roll]",
+            )
         return sweeps
 
     def _limits(self, table: Any) -> Limits:
@@ -702,8 +905,9 @@ class _DesignBuilder:
             fields = ("modulus_MPa", "yield_MPa", "ultimate_MPa", "density_kg_m3")
             r.keys(mtable, key, (*fields, "source"), required=(*fields, "source"))
             v = {f: r.number(mtable[f], f"{key}.{f}", positive=True) for f in fields}
-            specs.append(MaterialSpec(id=mid, source=r.string(mtable["source"], f"{key}.source"),
-                                      **v))
+            specs.append(
+                MaterialSpec(id=mid, source=r.string(mtable["source"], f"{key}.source"), **v)
+            )
         return specs
 
     def _load_cases(self, table: Any, elements: list[Element]) -> list[LoadCase]:
@@ -713,22 +917,41 @@ class _DesignBuilder:
         cases = []
         for cname, ctable in table.items():
             key = _join("load_cases", cname)
-            r.keys(ctable, key, ("speed_kmh", "bump_g", "longitudinal_g", "lateral_g",
-                                 "air_density_kg_m3", "forces_N"), required=("speed_kmh",))
+            r.keys(
+                ctable,
+                key,
+                (
+                    "speed_kmh",
+                    "bump_g",
+                    "longitudinal_g",
+                    "lateral_g",
+                    "air_density_kg_m3",
+                    "forces_N",
+                ),
+                required=("speed_kmh",),
+            )
             forces = ctable.get("forces_N", {})
             r.keys(forces, f"{key}.forces_N", names)
-            cases.append(LoadCase(
-                name=cname,
-                speed_kmh=r.number(ctable["speed_kmh"], f"{key}.speed_kmh", non_negative=True),
-                bump_g=r.number(ctable.get("bump_g", 0.0), f"{key}.bump_g"),
-                longitudinal_g=r.number(ctable.get("longitudinal_g", 0.0),
-                                        f"{key}.longitudinal_g"),
-                lateral_g=r.number(ctable.get("lateral_g", 0.0), f"{key}.lateral_g"),
-                air_density_kg_m3=r.number(ctable.get("air_density_kg_m3", 1.225),
-                                           f"{key}.air_density_kg_m3", positive=True),
-                forces_N={e: _as3(r.numbers(v, f"{key}.forces_N.{e}", 3, "[Fx, Fy, Fz] in N"))
-                          for e, v in forces.items()},
-            ))
+            cases.append(
+                LoadCase(
+                    name=cname,
+                    speed_kmh=r.number(ctable["speed_kmh"], f"{key}.speed_kmh", non_negative=True),
+                    bump_g=r.number(ctable.get("bump_g", 0.0), f"{key}.bump_g"),
+                    longitudinal_g=r.number(
+                        ctable.get("longitudinal_g", 0.0), f"{key}.longitudinal_g"
+                    ),
+                    lateral_g=r.number(ctable.get("lateral_g", 0.0), f"{key}.lateral_g"),
+                    air_density_kg_m3=r.number(
+                        ctable.get("air_density_kg_m3", 1.225),
+                        f"{key}.air_density_kg_m3",
+                        positive=True,
+                    ),
+                    forces_N={
+                        e: _as3(r.numbers(v, f"{key}.forces_N.{e}", 3, "[Fx, Fy, Fz] in N"))
+                        for e, v in forces.items()
+                    },
+                )
+            )
         return cases
 
     def _zones(self, table: Any) -> list[Zone]:
@@ -746,50 +969,79 @@ class _DesignBuilder:
             shared = ("kind", "clearance_mm")
             params: dict[str, object] = {}
             if kind == "box":
-                r.keys(ztable, key, (*shared, "centre_mm", "size_mm", "rotation_deg"),
-                       required=("centre_mm", "size_mm"))
+                r.keys(
+                    ztable,
+                    key,
+                    (*shared, "centre_mm", "size_mm", "rotation_deg"),
+                    required=("centre_mm", "size_mm"),
+                )
                 params["centre_mm"] = r.zone_point(ztable["centre_mm"], f"{key}.centre_mm")
                 size = r.numbers(ztable["size_mm"], f"{key}.size_mm", 3, "[lx, ly, lz] in mm")
                 for i, s in enumerate(size):
                     if s <= 0:
-                        r.fail(f"{key}.size_mm[{i}]", f"expected a positive size, got {s}",
-                               "give the box's full length along each axis")
+                        r.fail(
+                            f"{key}.size_mm[{i}]",
+                            f"expected a positive size, got {s}",
+                            "give the box's full length along each axis",
+                        )
                 params["size_mm"] = size
-                params["rotation_deg"] = r.numbers(ztable.get("rotation_deg", [0, 0, 0]),
-                                                   f"{key}.rotation_deg", 3,
-                                                   "[about x, about y, about z] in degrees")
+                params["rotation_deg"] = r.numbers(
+                    ztable.get("rotation_deg", [0, 0, 0]),
+                    f"{key}.rotation_deg",
+                    3,
+                    "[about x, about y, about z] in degrees",
+                )
             elif kind == "cylinder":
-                r.keys(ztable, key, (*shared, "axis_mm", "radius_mm"),
-                       required=("axis_mm", "radius_mm"))
+                r.keys(
+                    ztable,
+                    key,
+                    (*shared, "axis_mm", "radius_mm"),
+                    required=("axis_mm", "radius_mm"),
+                )
                 axis = ztable["axis_mm"]
                 if not isinstance(axis, list) or len(axis) != 2:
-                    r.fail(f"{key}.axis_mm", f"expected the two end points, got {_shown(axis)}",
-                           "write [[x, y, z], [x, y, z]]")
+                    r.fail(
+                        f"{key}.axis_mm",
+                        f"expected the two end points, got {_shown(axis)}",
+                        "write [[x, y, z], [x, y, z]]",
+                    )
                 a = r.zone_point(axis[0], f"{key}.axis_mm[0]")
                 b = r.zone_point(axis[1], f"{key}.axis_mm[1]")
                 if _norm(_sub(a, b)) < MIN_LENGTH_MM:
-                    r.fail(f"{key}.axis_mm", "the two end points coincide",
-                           "give two distinct points")
+                    r.fail(
+                        f"{key}.axis_mm", "the two end points coincide", "give two distinct points"
+                    )
                 params["axis_mm"] = (a, b)
-                params["radius_mm"] = r.number(ztable["radius_mm"], f"{key}.radius_mm",
-                                               positive=True)
+                params["radius_mm"] = r.number(
+                    ztable["radius_mm"], f"{key}.radius_mm", positive=True
+                )
             else:
-                r.keys(ztable, key, (*shared, "plane", "outline_mm", "depth_mm"),
-                       required=("plane", "outline_mm", "depth_mm"))
-                params["plane"] = r.string(ztable["plane"], f"{key}.plane",
-                                           ("front", "side", "top"))
+                r.keys(
+                    ztable,
+                    key,
+                    (*shared, "plane", "outline_mm", "depth_mm"),
+                    required=("plane", "outline_mm", "depth_mm"),
+                )
+                params["plane"] = r.string(
+                    ztable["plane"], f"{key}.plane", ("front", "side", "top")
+                )
                 outline = ztable["outline_mm"]
                 if not isinstance(outline, list) or len(outline) < 3:
-                    r.fail(f"{key}.outline_mm", "expected at least three [a, b] corners",
-                           "list the polygon's corners in order")
+                    r.fail(
+                        f"{key}.outline_mm",
+                        "expected at least three [a, b] corners",
+                        "list the polygon's corners in order",
+                    )
                 params["outline_mm"] = tuple(
                     r.numbers(p, f"{key}.outline_mm[{i}]", 2, "a corner [a, b] in mm")
-                    for i, p in enumerate(outline))
+                    for i, p in enumerate(outline)
+                )
                 params["depth_mm"] = r.range_(ztable["depth_mm"], f"{key}.depth_mm")
             clearance = None
             if "clearance_mm" in ztable:
-                clearance = r.number(ztable["clearance_mm"], f"{key}.clearance_mm",
-                                     non_negative=True)
+                clearance = r.number(
+                    ztable["clearance_mm"], f"{key}.clearance_mm", non_negative=True
+                )
             zones.append(Zone(zname, kind, params, clearance))  # type: ignore[arg-type]
         return zones
 
@@ -805,13 +1057,19 @@ class _DesignBuilder:
             for item in items:
                 where = f"{kind}.{item.name}"
                 if item.name in seen:
-                    r.fail(where, f"the name '{item.name}' is used twice "
-                           f"(also {seen[item.name]})", "give each body its own name")
+                    r.fail(
+                        where,
+                        f"the name '{item.name}' is used twice (also {seen[item.name]})",
+                        "give each body its own name",
+                    )
                 seen[item.name] = where
         for corner in design.corners:
             if corner.name in seen:
-                r.fail(f"corners.{corner.name}", f"the name '{corner.name}' is used twice "
-                       f"(also {seen[corner.name]})", "give each corner its own name")
+                r.fail(
+                    f"corners.{corner.name}",
+                    f"the name '{corner.name}' is used twice (also {seen[corner.name]})",
+                    "give each corner its own name",
+                )
         body_set = set(bodies)
         rocker_names = {rk.name for rk in design.rockers}
         element_names = {e.name for e in design.elements}
@@ -819,11 +1077,21 @@ class _DesignBuilder:
             key = f"rockers.{rocker.name}.parent"
             allowed = [CHASSIS] + [b for c in design.corners for b in c.bodies]
             if rocker.parent not in body_set:
-                r.fail(key, f"no body '{rocker.parent}'", _guess(rocker.parent, allowed,
-                       "use chassis or a corner body such as <corner>.lower"))
+                r.fail(
+                    key,
+                    f"no body '{rocker.parent}'",
+                    _guess(
+                        rocker.parent,
+                        allowed,
+                        "use chassis or a corner body such as <corner>.lower",
+                    ),
+                )
             if rocker.parent in rocker_names | element_names:
-                r.fail(key, f"'{rocker.parent}' cannot carry a rocker",
-                       "mount rockers on the chassis, an upright or a wishbone")
+                r.fail(
+                    key,
+                    f"'{rocker.parent}' cannot carry a rocker",
+                    "mount rockers on the chassis, an upright or a wishbone",
+                )
         names = list(design.pickups)
         for rod in design.rods:
             for i, end in enumerate((rod.end_a, rod.end_b)):
@@ -831,20 +1099,30 @@ class _DesignBuilder:
                 if end not in design.pickups:
                     body = end.rsplit(".", 1)[0] if "." in end else end
                     if "." not in end or body not in body_set:
-                        r.fail(key, f"no body for '{end}'",
-                               _guess(end, names, "write <body>.<pickup>"))
-                    r.fail(key, f"no pickup '{end}'", _guess(end, names,
-                           f"add it under the pickups of '{body}'"))
+                        r.fail(
+                            key, f"no body for '{end}'", _guess(end, names, "write <body>.<pickup>")
+                        )
+                    r.fail(
+                        key,
+                        f"no pickup '{end}'",
+                        _guess(end, names, f"add it under the pickups of '{body}'"),
+                    )
             body_a = design.pickups[rod.end_a].body
             body_b = design.pickups[rod.end_b].body
             if body_a == body_b:
-                r.fail(f"rods.{rod.name}.ends", f"both ends are on the body '{body_a}'",
-                       "a rod joins two different bodies")
+                r.fail(
+                    f"rods.{rod.name}.ends",
+                    f"both ends are on the body '{body_a}'",
+                    "a rod joins two different bodies",
+                )
         used = {rod.end_a for rod in design.rods} | {rod.end_b for rod in design.rods}
         for element in design.elements:
             if not any(design.pickups[p].body == element.name for p in used):
-                r.fail(f"elements.{element.name}", "no rod reaches this element",
-                       "join its pickups to the routes with [rods.<name>] tables")
+                r.fail(
+                    f"elements.{element.name}",
+                    "no rod reaches this element",
+                    "join its pickups to the routes with [rods.<name>] tables",
+                )
         rod_names = [rod.name for rod in design.rods]
         if len(set(rod_names)) != len(rod_names):
             dup = next(n for n in rod_names if rod_names.count(n) > 1)
@@ -853,15 +1131,23 @@ class _DesignBuilder:
             if rocker.plate is not None:
                 for hole in rocker.plate.holes_mm:
                     if f"{rocker.name}.{hole}" not in design.pickups:
-                        r.fail(f"rockers.{rocker.name}.plate.holes_mm.{hole}",
-                               f"no pickup '{hole}' on this rocker",
-                               _guess(hole, [p.name for p in design.pickups.values()
-                                             if p.body == rocker.name], "check the name"))
+                        r.fail(
+                            f"rockers.{rocker.name}.plate.holes_mm.{hole}",
+                            f"no pickup '{hole}' on this rocker",
+                            _guess(
+                                hole,
+                                [p.name for p in design.pickups.values() if p.body == rocker.name],
+                                "check the name",
+                            ),
+                        )
         for case in design.load_cases:
             for element in design.elements:
                 if element.aero is None and element.name not in case.forces_N:
-                    r.fail(f"load_cases.{case.name}.forces_N.{element.name}", "missing key",
-                           f"give [elements.{element.name}.aero] data, or the forces in N")
+                    r.fail(
+                        f"load_cases.{case.name}.forces_N.{element.name}",
+                        "missing key",
+                        f"give [elements.{element.name}.aero] data, or the forces in N",
+                    )
         del mirrored
 
     def _check_geometry(self, design: Design, mirrored: bool) -> None:
@@ -870,13 +1156,19 @@ class _DesignBuilder:
             a = design.pickups[rod.end_a].position_mm
             b = design.pickups[rod.end_b].position_mm
             if _norm(_sub(a, b)) < MIN_LENGTH_MM:
-                r.fail(f"rods.{rod.name}.ends", f"zero-length rod: '{rod.end_a}' and "
-                       f"'{rod.end_b}' are at the same point {list(a)}",
-                       "move one of the two pickups")
+                r.fail(
+                    f"rods.{rod.name}.ends",
+                    f"zero-length rod: '{rod.end_a}' and "
+                    f"'{rod.end_b}' are at the same point {list(a)}",
+                    "move one of the two pickups",
+                )
         for rocker in design.rockers:
             if _norm(_sub(rocker.axis_a_mm, rocker.axis_b_mm)) < MIN_LENGTH_MM:
-                r.fail(f"rockers.{rocker.name}.axis_mm", "zero-length pivot axis: the two "
-                       "points coincide", "give two distinct points on the pivot axis")
+                r.fail(
+                    f"rockers.{rocker.name}.axis_mm",
+                    "zero-length pivot axis: the two points coincide",
+                    "give two distinct points on the pivot axis",
+                )
         for corner in design.corners:
             w = corner.wishbones
             if w is None:
@@ -886,14 +1178,23 @@ class _DesignBuilder:
                 front = getattr(w, f"{side}_front_mm")
                 rear = getattr(w, f"{side}_rear_mm")
                 if _norm(_sub(front, rear)) < MIN_LENGTH_MM:
-                    r.fail(f"{key}.{side}_front_mm", f"zero-length pivot axis: the {side} "
-                           "wishbone's inner pivots coincide", "move one inner pivot")
-            if w.tie_rod_inner_mm is not None and w.tie_rod_outer_mm is not None and _norm(
-                    _sub(w.tie_rod_inner_mm, w.tie_rod_outer_mm)) < MIN_LENGTH_MM:
+                    r.fail(
+                        f"{key}.{side}_front_mm",
+                        f"zero-length pivot axis: the {side} wishbone's inner pivots coincide",
+                        "move one inner pivot",
+                    )
+            if (
+                w.tie_rod_inner_mm is not None
+                and w.tie_rod_outer_mm is not None
+                and _norm(_sub(w.tie_rod_inner_mm, w.tie_rod_outer_mm)) < MIN_LENGTH_MM
+            ):
                 r.fail(f"{key}.tie_rod_inner_mm", "zero-length tie rod", "move one of its ends")
             if _norm(_sub(w.upper_outer_mm, w.lower_outer_mm)) < MIN_LENGTH_MM:
-                r.fail(f"{key}.upper_outer_mm", "the two outer ball joints coincide",
-                       "move one of them")
+                r.fail(
+                    f"{key}.upper_outer_mm",
+                    "the two outer ball joints coincide",
+                    "move one of them",
+                )
         del mirrored
 
 
@@ -932,8 +1233,11 @@ def _mirrored(design: Design, reader: _Reader, pickup_where: dict[str, str]) -> 
     from dataclasses import replace
 
     def fail_twice(kind: str, name: str) -> NoReturn:
-        reader.fail(f"{kind}.{name}", f"mirror = true would make '{name}', which exists",
-                    f"remove the '{name}' entry or rename the left-hand one")
+        reader.fail(
+            f"{kind}.{name}",
+            f"mirror = true would make '{name}', which exists",
+            f"remove the '{name}' entry or rename the left-hand one",
+        )
 
     corners = list(design.corners)
     for corner in design.corners:
@@ -942,10 +1246,21 @@ def _mirrored(design: Design, reader: _Reader, pickup_where: dict[str, str]) -> 
             if any(c.name == new for c in corners):
                 fail_twice("corners", new)
             w = corner.wishbones
-            flipped_w = None if w is None else Wishbones(**{
-                k: (None if v is None else _flip(v)) for k, v in w.__dict__.items()})
-            corners.append(replace(corner, name=new, wheel_centre_mm=_flip(corner.wheel_centre_mm),
-                                   wishbones=flipped_w))
+            flipped_w = (
+                None
+                if w is None
+                else Wishbones(
+                    **{k: (None if v is None else _flip(v)) for k, v in w.__dict__.items()}
+                )
+            )
+            corners.append(
+                replace(
+                    corner,
+                    name=new,
+                    wheel_centre_mm=_flip(corner.wheel_centre_mm),
+                    wishbones=flipped_w,
+                )
+            )
     rockers = list(design.rockers)
     for rocker in design.rockers:
         if "left" in rocker.name:
@@ -955,9 +1270,16 @@ def _mirrored(design: Design, reader: _Reader, pickup_where: dict[str, str]) -> 
             plate = rocker.plate
             if plate is not None:
                 plate = replace(plate, holes_mm={_right(k): v for k, v in plate.holes_mm.items()})
-            rockers.append(replace(rocker, name=new, parent=_right(rocker.parent),
-                                   axis_a_mm=_flip(rocker.axis_a_mm),
-                                   axis_b_mm=_flip(rocker.axis_b_mm), plate=plate))
+            rockers.append(
+                replace(
+                    rocker,
+                    name=new,
+                    parent=_right(rocker.parent),
+                    axis_a_mm=_flip(rocker.axis_a_mm),
+                    axis_b_mm=_flip(rocker.axis_b_mm),
+                    plate=plate,
+                )
+            )
     elements = list(design.elements)
     for element in design.elements:
         if "left" in element.name:
@@ -968,18 +1290,26 @@ def _mirrored(design: Design, reader: _Reader, pickup_where: dict[str, str]) -> 
             if env is not None:
                 rx, ry, rz = env.rotation_deg
                 env = Envelope(_flip(env.centre_mm), env.size_mm, (-rx, ry, -rz))
-            elements.append(replace(element, name=new, cg_mm=_flip(element.cg_mm),
-                                    centre_of_pressure_mm=_flip(element.centre_of_pressure_mm),
-                                    envelope=env))
+            elements.append(
+                replace(
+                    element,
+                    name=new,
+                    cg_mm=_flip(element.cg_mm),
+                    centre_of_pressure_mm=_flip(element.centre_of_pressure_mm),
+                    envelope=env,
+                )
+            )
     pickups = dict(design.pickups)
     for key, pickup in design.pickups.items():
         if "left" in key:
             new_key = _right(key)
             body, _, pname = new_key.rpartition(".")
             if new_key in pickups:
-                reader.fail(pickup_where.get(new_key, new_key),
-                            f"mirror = true would make '{new_key}', which exists",
-                            f"remove the '{new_key}' entry or rename the left-hand one")
+                reader.fail(
+                    pickup_where.get(new_key, new_key),
+                    f"mirror = true would make '{new_key}', which exists",
+                    f"remove the '{new_key}' entry or rename the left-hand one",
+                )
             pickups[new_key] = Pickup(body, pname, _flip(pickup.position_mm))
     rods = list(design.rods)
     for rod in design.rods:
@@ -995,9 +1325,15 @@ def _mirrored(design: Design, reader: _Reader, pickup_where: dict[str, str]) -> 
             if any(z.name == new for z in zones):
                 fail_twice("zones", new)
             zones.append(Zone(new, zone.kind, _flip_zone_params(zone), zone.clearance_mm))
-    return replace(design, corners=tuple(corners), rockers=tuple(rockers),
-                   elements=tuple(elements), pickups=pickups, rods=tuple(rods),
-                   zones=tuple(zones))
+    return replace(
+        design,
+        corners=tuple(corners),
+        rockers=tuple(rockers),
+        elements=tuple(elements),
+        pickups=pickups,
+        rods=tuple(rods),
+        zones=tuple(zones),
+    )
 
 
 def _flip_zone_params(zone: Zone) -> dict[str, object]:

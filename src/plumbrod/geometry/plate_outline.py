@@ -100,8 +100,9 @@ class PlateOutline:
     def mass_kg(self, density_kg_m3: float) -> float:
         """Mass of the plate (net area × thickness × density), kg."""
         if not density_kg_m3 > 0:
-            raise GeometryError("mass_kg.density_kg_m3", "a density > 0 in kg/m³",
-                                repr(density_kg_m3))
+            raise GeometryError(
+                "mass_kg.density_kg_m3", "a density > 0 in kg/m³", repr(density_kg_m3)
+            )
         return self.area_mm2 * self.thickness_mm * 1e-9 * density_kg_m3
 
     def least_ligament(self) -> Ligament:
@@ -113,8 +114,9 @@ class PlateOutline:
         true outline (hull of polygons circumscribing each boss circle, straying at most
         ``chord_tol_mm`` outside it): a coarse, conservative plate for clearance."""
         if not chord_tol_mm > 0:
-            raise GeometryError("enclosing_uv.chord_tol_mm", "a tolerance > 0 in mm",
-                                repr(chord_tol_mm))
+            raise GeometryError(
+                "enclosing_uv.chord_tol_mm", "a tolerance > 0 in mm", repr(chord_tol_mm)
+            )
         radii = np.array([h.boss_radius_mm for h in self.holes])
         r = float(radii.max())
         q = 1
@@ -216,24 +218,28 @@ def plate_outline(
     a1 = _vector("plate_outline.axis_p1", axis_p1)
     axis = a1 - a0
     if np.linalg.norm(axis) <= 0:
-        raise GeometryError("plate_outline.axis_p1", "a point distinct from axis_p0",
-                            "the same point")
+        raise GeometryError(
+            "plate_outline.axis_p1", "a point distinct from axis_p0", "the same point"
+        )
     normal = axis / np.linalg.norm(axis)
     if not pickups:
         raise GeometryError("plate_outline.pickups", "at least one pickup", "none")
     names = list(pickups)
     if PIVOT in names or EDGE in names:
-        raise GeometryError("plate_outline.pickups", "pickup names other than 'pivot' and "
-                            "'edge'", repr(names))
+        raise GeometryError(
+            "plate_outline.pickups", "pickup names other than 'pivot' and 'edge'", repr(names)
+        )
     points = np.stack([_vector(f"plate_outline.pickups[{n!r}]", pickups[n]) for n in names])
     pivot_d = _positive("plate_outline.pivot_hole_mm", pivot_hole_mm)
     if isinstance(pickup_hole_mm, Mapping):
         missing = [n for n in names if n not in pickup_hole_mm]
         if missing:
-            raise GeometryError("plate_outline.pickup_hole_mm", "a diameter for every pickup",
-                                f"none for {missing}")
-        hole_d = [_positive(f"plate_outline.pickup_hole_mm[{n!r}]", pickup_hole_mm[n])
-                  for n in names]
+            raise GeometryError(
+                "plate_outline.pickup_hole_mm", "a diameter for every pickup", f"none for {missing}"
+            )
+        hole_d = [
+            _positive(f"plate_outline.pickup_hole_mm[{n!r}]", pickup_hole_mm[n]) for n in names
+        ]
     else:
         hole_d = [_positive("plate_outline.pickup_hole_mm", pickup_hole_mm)] * len(names)
     margin = _positive("plate_outline.edge_margin_mm", edge_margin_mm)
@@ -248,8 +254,9 @@ def plate_outline(
     reach = np.linalg.norm(radial, axis=1)
     off_axis = np.flatnonzero(reach > 1e-9 * max(1.0, float(reach.max(initial=0.0))))
     if off_axis.size == 0:
-        raise GeometryError("plate_outline.pickups", "a pickup off the pivot axis",
-                            "every pickup on the axis")
+        raise GeometryError(
+            "plate_outline.pickups", "a pickup off the pivot axis", "every pickup on the axis"
+        )
     u = radial[off_axis[0]] / reach[off_axis[0]]
     v = np.cross(normal, u)
     centres = np.vstack([[0.0, 0.0], np.stack([rel @ u, rel @ v], axis=1)])
@@ -275,13 +282,15 @@ def plate_outline(
     bosses = shapely.buffer(pts, boss, quad_segs=q)
     outline = shapely.orient_polygons(shapely.convex_hull(shapely.union_all(bosses)))
     edge_webs = shapely.distance(pts, outline.exterior) - diameters / 2.0
-    ligaments = [Ligament((all_names[a], all_names[b]), float(w))
-                 for a, b, w in zip(i, j, webs, strict=True)]
+    ligaments = [
+        Ligament((all_names[a], all_names[b]), float(w)) for a, b, w in zip(i, j, webs, strict=True)
+    ]
     ligaments += [Ligament((n, EDGE), float(w)) for n, w in zip(all_names, edge_webs, strict=True)]
     holes = tuple(
         PlateHole(n, (float(c[0]), float(c[1])), float(d), float(r), float(o))
-        for n, c, d, r, o in zip(all_names, centres, diameters, boss,
-                                 [0.0, *offsets.tolist()], strict=True)
+        for n, c, d, r, o in zip(
+            all_names, centres, diameters, boss, [0.0, *offsets.tolist()], strict=True
+        )
     )
     area = float(outline.area - np.sum(np.pi * diameters**2 / 4.0))
     frozen = []
@@ -289,6 +298,13 @@ def plate_outline(
         arr = np.array(vec, dtype=float)
         arr.flags.writeable = False
         frozen.append(arr)
-    return PlateOutline(*frozen, outline=outline, holes=holes, thickness_mm=thickness,
-                        chord_tol_mm=tol, quad_segs=q, area_mm2=area,
-                        ligaments=tuple(ligaments))
+    return PlateOutline(
+        *frozen,
+        outline=outline,
+        holes=holes,
+        thickness_mm=thickness,
+        chord_tol_mm=tol,
+        quad_segs=q,
+        area_mm2=area,
+        ligaments=tuple(ligaments),
+    )

@@ -148,20 +148,23 @@ class Box:
     def __post_init__(self) -> None:
         centre = _points("Box.centre", self.centre)
         half = _positive("Box.half_size", _points("Box.half_size", self.half_size))
-        rotation = np.eye(3) if self.rotation is None else _float_array(
-            "Box.rotation", self.rotation
+        rotation = (
+            np.eye(3) if self.rotation is None else _float_array("Box.rotation", self.rotation)
         )
         if rotation.ndim < 2 or rotation.shape[-2:] != (3, 3):
-            raise GeometryError("Box.rotation", "an array of shape (..., 3, 3)",
-                                f"shape {rotation.shape}")
+            raise GeometryError(
+                "Box.rotation", "an array of shape (..., 3, 3)", f"shape {rotation.shape}"
+            )
         gram = np.swapaxes(rotation, -1, -2) @ rotation
         off = float(np.max(np.abs(gram - np.eye(3)))) if gram.size else 0.0
         if off > _ROTATION_TOL:
-            raise GeometryError("Box.rotation", "an orthonormal matrix (R^T R = I)",
-                                f"a deviation of {off:.3g}")
+            raise GeometryError(
+                "Box.rotation", "an orthonormal matrix (R^T R = I)", f"a deviation of {off:.3g}"
+            )
         if np.any(np.linalg.det(rotation) <= 0):
-            raise GeometryError("Box.rotation", "a proper rotation (det = +1)",
-                                "a reflection (det = -1)")
+            raise GeometryError(
+                "Box.rotation", "a proper rotation (det = +1)", "a reflection (det = -1)"
+            )
         _batch_shape("Box", centre.shape[:-1], half.shape[:-1], rotation.shape[:-2])
         object.__setattr__(self, "centre", _frozen(centre))
         object.__setattr__(self, "half_size", _frozen(half))
@@ -192,8 +195,9 @@ class Cylinder:
         _batch_shape("Cylinder", p0.shape[:-1], p1.shape[:-1], radius.shape)
         length = np.linalg.norm(p1 - p0, axis=-1)
         if np.any(length <= 0):
-            raise GeometryError("Cylinder.p1", "an end point distinct from p0",
-                                "a zero-length axis")
+            raise GeometryError(
+                "Cylinder.p1", "an end point distinct from p0", "a zero-length axis"
+            )
         object.__setattr__(self, "p0", _frozen(p0))
         object.__setattr__(self, "p1", _frozen(p1))
         object.__setattr__(self, "radius", _frozen(radius))
@@ -264,27 +268,30 @@ class Prism:
 
     def __post_init__(self) -> None:
         if self.plane not in VIEW_PLANES:
-            raise GeometryError("Prism.plane", "one of 'front', 'side', 'top'",
-                                repr(self.plane))
+            raise GeometryError("Prism.plane", "one of 'front', 'side', 'top'", repr(self.plane))
         poly = _float_array("Prism.polygon_2d", self.polygon_2d)
         if poly.ndim != 2 or poly.shape[1] != 2:
-            raise GeometryError("Prism.polygon_2d", "an array of shape (m, 2) in mm",
-                                f"shape {poly.shape}")
+            raise GeometryError(
+                "Prism.polygon_2d", "an array of shape (m, 2) in mm", f"shape {poly.shape}"
+            )
         if len(poly) > 1 and np.array_equal(poly[0], poly[-1]):
             poly = poly[:-1]
         if len(poly) < 3:
-            raise GeometryError("Prism.polygon_2d", "at least 3 vertices",
-                                f"{len(poly)}")
+            raise GeometryError("Prism.polygon_2d", "at least 3 vertices", f"{len(poly)}")
         polygon = shapely.Polygon(poly)
         if not polygon.is_valid or polygon.area <= 0:
             reason = shapely.is_valid_reason(polygon)
-            raise GeometryError("Prism.polygon_2d", "a simple polygon (no self-intersection)",
-                                f"an invalid polygon ({reason})")
+            raise GeometryError(
+                "Prism.polygon_2d",
+                "a simple polygon (no self-intersection)",
+                f"an invalid polygon ({reason})",
+            )
         lo = float(_float_array("Prism.depth_min", self.depth_min))
         hi = float(_float_array("Prism.depth_max", self.depth_max))
         if not lo < hi:
-            raise GeometryError("Prism.depth_max", f"a depth greater than depth_min = {lo}",
-                                f"{hi}")
+            raise GeometryError(
+                "Prism.depth_max", f"a depth greater than depth_min = {lo}", f"{hi}"
+            )
         object.__setattr__(self, "polygon_2d", _frozen(poly))
         object.__setattr__(self, "depth_min", lo)
         object.__setattr__(self, "depth_max", hi)
@@ -334,8 +341,9 @@ class Plate:
     def __post_init__(self) -> None:
         verts = _float_array("Plate.vertices", self.vertices)
         if verts.ndim < 2 or verts.shape[-1] != 3 or verts.shape[-2] < 3:
-            raise GeometryError("Plate.vertices", "an array of shape (..., n, 3), n >= 3",
-                                f"shape {verts.shape}")
+            raise GeometryError(
+                "Plate.vertices", "an array of shape (..., n, 3), n >= 3", f"shape {verts.shape}"
+            )
         thickness = _positive("Plate.thickness", self.thickness)
         _batch_shape("Plate", verts.shape[:-2], thickness.shape)
         origin = verts.mean(axis=-2)
@@ -344,23 +352,30 @@ class Plate:
         twice_area = np.linalg.norm(newell, axis=-1)
         size = np.max(np.linalg.norm(verts - origin[..., None, :], axis=-1), axis=-1)
         if np.any(twice_area <= 1e-12 * np.maximum(size, 1.0) ** 2):
-            raise GeometryError("Plate.vertices", "a polygon with non-zero area",
-                                "collinear, coincident or crossing vertices")
+            raise GeometryError(
+                "Plate.vertices",
+                "a polygon with non-zero area",
+                "collinear, coincident or crossing vertices",
+            )
         w = newell / twice_area[..., None]
         edge = nxt[..., 0, :] - verts[..., 0, :]
         edge = edge - np.sum(edge * w, axis=-1, keepdims=True) * w
         edge_len = np.linalg.norm(edge, axis=-1)
         if np.any(edge_len <= 0):
-            raise GeometryError("Plate.vertices", "distinct first and second vertices",
-                                "a zero-length first edge")
+            raise GeometryError(
+                "Plate.vertices", "distinct first and second vertices", "a zero-length first edge"
+            )
         u = edge / edge_len[..., None]
         v = np.cross(w, u)
         rel = verts - origin[..., None, :]
         off_plane = np.abs(np.einsum("...nk,...k->...n", rel, w))
         worst = np.max(off_plane / np.maximum(size, 1.0)[..., None])
         if worst > _PLANARITY_TOL:
-            raise GeometryError("Plate.vertices", "coplanar vertices",
-                                f"a vertex {worst:.3g} x plate size off the plane")
+            raise GeometryError(
+                "Plate.vertices",
+                "coplanar vertices",
+                f"a vertex {worst:.3g} x plate size off the plane",
+            )
         uv = np.stack(
             [np.einsum("...nk,...k->...n", rel, u), np.einsum("...nk,...k->...n", rel, v)],
             axis=-1,
@@ -372,8 +387,11 @@ class Plate:
         scale2 = np.maximum(size, 1.0)[..., None] ** 2
         winding = np.sum(np.arctan2(turn_cross, turn_dot), axis=-1)
         if np.any(turn_cross < -1e-9 * scale2) or np.any(np.abs(winding - 2 * np.pi) > 1e-6):
-            raise GeometryError("Plate.vertices", "a convex polygon with vertices in order",
-                                "a non-convex or self-intersecting polygon")
+            raise GeometryError(
+                "Plate.vertices",
+                "a convex polygon with vertices in order",
+                "a non-convex or self-intersecting polygon",
+            )
         object.__setattr__(self, "vertices", _frozen(verts))
         object.__setattr__(self, "thickness", _frozen(thickness))
         object.__setattr__(self, "origin", _frozen(origin))

@@ -36,8 +36,7 @@ def build_linkage(design: Design) -> Linkage:
         point_owner.append(body)
         return full
 
-    def add_body(name: str, kind: str, how: int, par: str, axis: tuple[str, str],
-                 ref: str) -> None:
+    def add_body(name: str, kind: str, how: int, par: str, axis: tuple[str, str], ref: str) -> None:
         names.append(name)
         kinds.append(kind)
         mount.append(how)
@@ -58,10 +57,10 @@ def build_linkage(design: Design) -> Linkage:
         assert w is not None
         for side in ("upper", "lower"):
             body = f"{corner.name}.{side}"
-            front = add_point(CHASSIS, f"{corner.name}.{side}_front",
-                              getattr(w, f"{side}_front_mm"))
-            rear = add_point(CHASSIS, f"{corner.name}.{side}_rear",
-                             getattr(w, f"{side}_rear_mm"))
+            front = add_point(
+                CHASSIS, f"{corner.name}.{side}_front", getattr(w, f"{side}_front_mm")
+            )
+            rear = add_point(CHASSIS, f"{corner.name}.{side}_rear", getattr(w, f"{side}_rear_mm"))
             add_body(body, "wishbone", HINGE, CHASSIS, (rear, front), "")
         add_body(up, "upright", FREE, CHASSIS, ("", ""), wc)
         for side in ("upper", "lower"):
@@ -124,13 +123,12 @@ def build_linkage(design: Design) -> Linkage:
     for b in order[1:]:
         if mount_arr[b] == FREE:
             f = free_index[b]
-            ancestors[b, n_joint + f * k: n_joint + (f + 1) * k] = True
+            ancestors[b, n_joint + f * k : n_joint + (f + 1) * k] = True
             continue
         ancestors[b] = ancestors[parent_arr[b]]
         ancestors[b, joint_index[b]] = True
 
-    axis_idx = np.array([[index.get(a, 0), index.get(b, 0)] for a, b in axis_pts],
-                        dtype=np.intp)
+    axis_idx = np.array([[index.get(a, 0), index.get(b, 0)] for a, b in axis_pts], dtype=np.intp)
     ref_idx = np.array([index.get(r, 0) for r in reference], dtype=np.intp)
 
     components: tuple[int, ...] = (0, 1, 2)
@@ -156,17 +154,19 @@ def build_linkage(design: Design) -> Linkage:
         point_body=point_body,
         points=np.array(point_pos, dtype=float)[None],
         rod_names=tuple(rod_names),
-        rod_ends=np.array([[index[a], index[b]] for a, b in rod_pairs],
-                          dtype=np.intp).reshape(-1, 2),
+        rod_ends=np.array([[index[a], index[b]] for a, b in rod_pairs], dtype=np.intp).reshape(
+            -1, 2
+        ),
         ball_names=tuple(ball_names),
-        ball_ends=np.array([[index[a], index[b]] for a, b in ball_pairs],
-                           dtype=np.intp).reshape(-1, 2),
+        ball_ends=np.array([[index[a], index[b]] for a, b in ball_pairs], dtype=np.intp).reshape(
+            -1, 2
+        ),
         ball_components=components,
         corner_names=tuple(c.name for c in design.corners),
-        wheel_centre=np.array([index[f"{c.upright}.wheel_centre"] for c in design.corners],
-                              dtype=np.intp),
-        corner_upright=np.array([body_index[c.upright] for c in design.corners],
-                                dtype=np.intp),
+        wheel_centre=np.array(
+            [index[f"{c.upright}.wheel_centre"] for c in design.corners], dtype=np.intp
+        ),
+        corner_upright=np.array([body_index[c.upright] for c in design.corners], dtype=np.intp),
         tyre_radius_mm=np.array([c.tyre_radius_mm for c in design.corners], dtype=float),
         spin_axis=spin,
         free_basis=basis,

@@ -76,10 +76,22 @@ def chassis_motion(motion: Array, centre_mm: Array) -> tuple[Array, Array, Array
     cr, sr = np.cos(roll), np.sin(roll)
     cp, sp = np.cos(pitch), np.sin(pitch)
     zero, one = np.zeros(n), np.ones(n)
-    rx = np.stack((np.stack((one, zero, zero), -1), np.stack((zero, cr, -sr), -1),
-                   np.stack((zero, sr, cr), -1)), -2)
-    ry = np.stack((np.stack((cp, zero, sp), -1), np.stack((zero, one, zero), -1),
-                   np.stack((-sp, zero, cp), -1)), -2)
+    rx = np.stack(
+        (
+            np.stack((one, zero, zero), -1),
+            np.stack((zero, cr, -sr), -1),
+            np.stack((zero, sr, cr), -1),
+        ),
+        -2,
+    )
+    ry = np.stack(
+        (
+            np.stack((cp, zero, sp), -1),
+            np.stack((zero, one, zero), -1),
+            np.stack((-sp, zero, cp), -1),
+        ),
+        -2,
+    )
     kx = np.array([[0.0, 0.0, 0.0], [0.0, 0.0, -1.0], [0.0, 1.0, 0.0]])
     ky = np.array([[0.0, 0.0, 1.0], [0.0, 0.0, 0.0], [-1.0, 0.0, 0.0]])
     rot = ry @ rx
@@ -140,8 +152,12 @@ class BodyDrive:
 
     def residual(self, link: Linkage, kin: Kinematics) -> Array:
         _, trans, _, _, up, centre, _, _, sin = self._contact(link, kin)
-        return (np.einsum("bi,bci->bc", up, centre) - link.tyre_radius_mm * sin
-                + trans[:, 2, None] - self.ground_height(link))
+        return (
+            np.einsum("bi,bci->bc", up, centre)
+            - link.tyre_radius_mm * sin
+            + trans[:, 2, None]
+            - self.ground_height(link)
+        )
 
     def rows(self, link: Linkage, kin: Kinematics) -> tuple[Array, Array]:
         phi = self.residual(link, kin)

@@ -87,8 +87,7 @@ def route_ratios(link: Linkage, routes: RouteMap, result: SweepResult) -> dict[s
     return out
 
 
-def line_of_action(link: Linkage, kin: Kinematics, up: Array,
-                   rods: list[str]) -> dict[str, Array]:
+def line_of_action(link: Linkage, kin: Kinematics, up: Array, rods: list[str]) -> dict[str, Array]:
     """Angle (deg) of each named rod from the ground vertical ``up`` (B, 3)."""
     out: dict[str, Array] = {}
     for name in rods:
@@ -104,8 +103,11 @@ def ride_heights(link: Linkage, result: SweepResult) -> dict[str, RideHeight]:
     rot, trans, d_rot, d_trans = ground_frame(result)
     up = rot[:, 2, :]
     kin = result.solved.kin
-    params = [p for p in ("heave", "roll", "pitch")
-              if np.any(result.spec.drive.parameters[:, _PARAMETER_INDEX[p]] != 0)]
+    params = [
+        p
+        for p in ("heave", "roll", "pitch")
+        if np.any(result.spec.drive.parameters[:, _PARAMETER_INDEX[p]] != 0)
+    ]
     out: dict[str, RideHeight] = {}
     for element in link.design.elements:
         idx = link.point(f"{element.name}.centre_of_pressure")
@@ -118,8 +120,9 @@ def ride_heights(link: Linkage, result: SweepResult) -> dict[str, RideHeight]:
             k = _PARAMETER_INDEX[name]
             d_up = d_rot[:, k, 2, :]
             moved = np.einsum("bik,bk->bi", jp, result.tangent[:, :, k])
-            sens[name] = (np.sum(d_up * p, -1) + np.sum(up * moved, -1)
-                          + d_trans[:, k, 2]) * _PER_UNIT[name]
+            sens[name] = (
+                np.sum(d_up * p, -1) + np.sum(up * moved, -1) + d_trans[:, k, 2]
+            ) * _PER_UNIT[name]
             bolted[name] = (d_up @ p0 + d_trans[:, k, 2]) * _PER_UNIT[name]
         out[element.name] = RideHeight(
             element=element.name,

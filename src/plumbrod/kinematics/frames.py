@@ -51,8 +51,9 @@ def rotation_about(axis: Array, angle: Array) -> Array:
     c = np.cos(angle)[..., None, None]
     x, y, z = axis[..., 0], axis[..., 1], axis[..., 2]
     zero = np.zeros_like(x)
-    k = np.stack((np.stack((zero, -z, y), -1), np.stack((z, zero, -x), -1),
-                  np.stack((-y, x, zero), -1)), -2)
+    k = np.stack(
+        (np.stack((zero, -z, y), -1), np.stack((z, zero, -x), -1), np.stack((-y, x, zero), -1)), -2
+    )
     outer = axis[..., :, None] * axis[..., None, :]
     eye = np.eye(3)
     return c * eye + s * k + (1.0 - c) * outer
@@ -93,31 +94,39 @@ class Pose:
 
     def repeat(self, count: int) -> Pose:
         """The (single) pose repeated ``count`` times."""
-        return Pose(np.repeat(self.joint, count, axis=0), np.repeat(self.rotation, count, axis=0),
-                    np.repeat(self.centre, count, axis=0))
+        return Pose(
+            np.repeat(self.joint, count, axis=0),
+            np.repeat(self.rotation, count, axis=0),
+            np.repeat(self.centre, count, axis=0),
+        )
 
 
 def concatenate_poses(poses: list[Pose]) -> Pose:
     """Join batches along the pose axis."""
-    return Pose(np.concatenate([p.joint for p in poses]),
-                np.concatenate([p.rotation for p in poses]),
-                np.concatenate([p.centre for p in poses]))
+    return Pose(
+        np.concatenate([p.joint for p in poses]),
+        np.concatenate([p.rotation for p in poses]),
+        np.concatenate([p.centre for p in poses]),
+    )
 
 
 def skew(v: Array) -> Array:
     """(..., 3, 3) matrices with ``skew(v) @ x = v x x``."""
     x, y, z = v[..., 0], v[..., 1], v[..., 2]
     zero = np.zeros_like(x)
-    return np.stack((np.stack((zero, -z, y), -1), np.stack((z, zero, -x), -1),
-                     np.stack((-y, x, zero), -1)), -2)
+    return np.stack(
+        (np.stack((zero, -z, y), -1), np.stack((z, zero, -x), -1), np.stack((-y, x, zero), -1)), -2
+    )
 
 
 def rotation_vector(r: Array) -> Array:
     """Rotation vectors (..., 3) of rotation matrices (angles below pi)."""
     cos = np.clip((np.trace(r, axis1=-2, axis2=-1) - 1.0) / 2.0, -1.0, 1.0)
     angle = np.arccos(cos)
-    vec = np.stack((r[..., 2, 1] - r[..., 1, 2], r[..., 0, 2] - r[..., 2, 0],
-                    r[..., 1, 0] - r[..., 0, 1]), axis=-1)
+    vec = np.stack(
+        (r[..., 2, 1] - r[..., 1, 2], r[..., 0, 2] - r[..., 2, 0], r[..., 1, 0] - r[..., 0, 1]),
+        axis=-1,
+    )
     sin = np.sin(angle)
     factor = np.where(sin > 1e-12, angle / (2.0 * np.where(sin > 1e-12, sin, 1.0)), 0.5)
     return vec * factor[..., None]

@@ -20,6 +20,7 @@ Constraint rows (all in mm): rod lengths ``(|d|^2 - L^2) / 2L``, ball joints (th
 components, the in-plane ones in a planar design), and one driver row per corner (see
 :mod:`plumbrod.kinematics.drives`).
 """
+
 from __future__ import annotations
 
 from dataclasses import dataclass, field, replace
@@ -79,8 +80,9 @@ class Kinematics:
         n, count = points.shape[0], points.shape[1]
         eye = np.broadcast_to(np.eye(3), (n, count, 3, 3))
         wrench = np.concatenate((eye, cross(points[:, :, None, :], eye)), axis=-1)
-        rows = self.jacobian_rows(link, np.repeat(bodies, 3)[:, None],
-                                  wrench.reshape(n, count * 3, 1, 6))
+        rows = self.jacobian_rows(
+            link, np.repeat(bodies, 3)[:, None], wrench.reshape(n, count * 3, 1, 6)
+        )
         return rows.reshape(n, count, 3, -1)
 
     def body_twists(self, link: Linkage, bodies: NDArray[np.intp]) -> Array:
@@ -163,8 +165,9 @@ class Linkage:
         if points.ndim == 2:
             points = points[None]
         if points.shape[1:] != self.points.shape[1:]:
-            raise ValueError(f"expected points of shape (G, {self.points.shape[1]}, 3), "
-                             f"got {points.shape}")
+            raise ValueError(
+                f"expected points of shape (G, {self.points.shape[1]}, 3), got {points.shape}"
+            )
         return replace(self, points=points, _cache={})
 
     @property
@@ -203,9 +206,11 @@ class Linkage:
     def design_pose(self, count: int = 1) -> Pose:
         """``count`` copies of the design pose (the geometry batch G must be 1 or ``count``)."""
         refs = self.points[:, self.reference[self.free_index >= 0]]
-        return Pose(np.zeros((count, self.n_joint)),
-                    np.broadcast_to(np.eye(3), (count, self.n_free, 3, 3)).copy(),
-                    np.broadcast_to(refs, (count, self.n_free, 3)).copy())
+        return Pose(
+            np.zeros((count, self.n_joint)),
+            np.broadcast_to(np.eye(3), (count, self.n_free, 3, 3)).copy(),
+            np.broadcast_to(refs, (count, self.n_free, 3)).copy(),
+        )
 
     def advance(self, pose: Pose, step: Array) -> Pose:
         """The pose moved by coordinate increments ``step`` (B, nq)."""
@@ -213,7 +218,7 @@ class Linkage:
         if self.n_free == 0:
             return Pose(joint, pose.rotation, pose.centre)
         k = self.free_basis.shape[1]
-        inc = step[:, self.n_joint:].reshape(step.shape[0], self.n_free, k) @ self.free_basis.T
+        inc = step[:, self.n_joint :].reshape(step.shape[0], self.n_free, k) @ self.free_basis.T
         centre = pose.centre + inc[..., 0:3]
         rotation = rotation_vector_matrix(inc[..., 3:6]) @ pose.rotation
         return Pose(joint, rotation, centre)
@@ -302,7 +307,7 @@ class Linkage:
             full[:, 2, :, 3], full[:, 2, :, 4] = -c[..., 1], c[..., 0]
             if self.free_basis.shape[1] != 6:
                 full = full @ self.free_basis
-            col[:, :, self.n_joint:] = full.reshape(n, 6, -1)
+            col[:, :, self.n_joint :] = full.reshape(n, 6, -1)
         eye = np.eye(3)
         for level, entry in enumerate(self._levels()):
             on_chassis = level == 0  # every parent is the chassis: R_P = I, t_P = 0
@@ -313,8 +318,11 @@ class Linkage:
                 ang = pose.joint[:, jnt]
                 c = np.cos(ang)[..., None]
                 s = np.sin(ang)[..., None]
-                turn = (c[..., None] * eye + s[..., None] * entry["hinge_k"]
-                        + (1.0 - c[..., None]) * entry["hinge_uu"])
+                turn = (
+                    c[..., None] * eye
+                    + s[..., None] * entry["hinge_k"]
+                    + (1.0 - c[..., None]) * entry["hinge_uu"]
+                )
                 a = entry["hinge_a"]
                 u = entry["hinge_u"]
                 shift = a - (c * a + s * entry["hinge_uxa"] + (1.0 - c) * entry["hinge_uua"])

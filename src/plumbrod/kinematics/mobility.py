@@ -67,15 +67,19 @@ def _gruebler(link: Linkage) -> tuple[int, str]:
     if link.plane is not None:
         joints = lower + balls  # every joint is a pin (one freedom) in the plane
         count = 3 * (links - 1) - 2 * joints
-        formula = (f"M = 3(n-1) - 2j = 3({links}-1) - 2*{joints} = {count} "
-                   f"(n = {links} links incl. {n_rods} rods, j = {joints} pins and slides)")
+        formula = (
+            f"M = 3(n-1) - 2j = 3({links}-1) - 2*{joints} = {count} "
+            f"(n = {links} links incl. {n_rods} rods, j = {joints} pins and slides)"
+        )
         return count, formula
     raw = 6 * (links - 1) - 5 * lower - 3 * balls
     count = raw - n_rods
-    formula = (f"M = 6(n-1) - 5*j1 - 3*j3 - idle = 6({links}-1) - 5*{lower} - 3*{balls} "
-               f"- {n_rods} = {count} (n = {links} links incl. {n_rods} rods; "
-               f"j1 = {lower} hinges and slides; j3 = {balls} ball joints; "
-               f"{n_rods} idle rod spins)")
+    formula = (
+        f"M = 6(n-1) - 5*j1 - 3*j3 - idle = 6({links}-1) - 5*{lower} - 3*{balls} "
+        f"- {n_rods} = {count} (n = {links} links incl. {n_rods} rods; "
+        f"j1 = {lower} hinges and slides; j3 = {balls} ball joints; "
+        f"{n_rods} idle rod spins)"
+    )
     return count, formula
 
 
@@ -89,7 +93,7 @@ def _scales(link: Linkage) -> Array:
     k = link.free_basis.shape[1]
     rotational = np.any(link.free_basis[3:6] != 0, axis=0)
     for f in range(link.n_free):
-        scale[link.n_joint + f * k: link.n_joint + (f + 1) * k][rotational] = length
+        scale[link.n_joint + f * k : link.n_joint + (f + 1) * k][rotational] = length
     return scale
 
 
@@ -124,10 +128,19 @@ def analyse_mobility(link: Linkage) -> Mobility:
         redundant.append(
             f"{surplus} redundant member{'s' if surplus > 1 else ''}: removing "
             f"{'any one' if surplus == 1 else 'some'} of rods {listed} leaves the rest "
-            "exactly located")
-    return Mobility(count=count, formula=formula, drivers=nc, rank=rank, n_coords=n,
-                    n_rows=m, free_motions=tuple(free), redundant=tuple(redundant),
-                    redundant_members=tuple(groups))
+            "exactly located"
+        )
+    return Mobility(
+        count=count,
+        formula=formula,
+        drivers=nc,
+        rank=rank,
+        n_coords=n,
+        n_rows=m,
+        free_motions=tuple(free),
+        redundant=tuple(redundant),
+        redundant_members=tuple(groups),
+    )
 
 
 def _describe_motion(link: Linkage, kin: Kinematics, coords: Array) -> str:
@@ -138,8 +151,7 @@ def _describe_motion(link: Linkage, kin: Kinematics, coords: Array) -> str:
         mask = link.ancestors[b]
         twist = kin.columns[0][:, mask] @ coords[mask]
         v, w = twist[0:3], twist[3:6]
-        ref = link.points[0, link.reference[b]] if link.mount[b] == FREE else \
-            link.axis_origin[0, b]
+        ref = link.points[0, link.reference[b]] if link.mount[b] == FREE else link.axis_origin[0, b]
         v_ref = v + np.cross(w, ref)
         size = max(np.linalg.norm(v_ref), np.linalg.norm(w) * length)
         if size > best_size * (1 + 1e-9):

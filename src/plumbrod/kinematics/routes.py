@@ -86,8 +86,10 @@ def find_routes(design: Design) -> RouteMap:
                 guides.append(rod.name)
                 continue
             reached = _component(start, neighbours, elements)
-            corners = sorted({corner_of[b] for b in reached if b in corner_of},
-                             key=lambda c: _distance(start, c, neighbours, corner_of, elements))
+            corners = sorted(
+                {corner_of[b] for b in reached if b in corner_of},
+                key=lambda c: _distance(start, c, neighbours, corner_of, elements),
+            )
             if not corners:
                 guides.append(rod.name)
                 continue
@@ -101,9 +103,16 @@ def find_routes(design: Design) -> RouteMap:
                     a, b = body_of[other.end_a], body_of[other.end_b]
                     if (a in own and b in between) or (b in own and a in between):
                         delivering.append(other.name)
-            routes.append(Route(element=element, pickup=near, corners=tuple(corners),
-                                bodies=between, receiving_rods=(rod.name,),
-                                delivering_rods=tuple(delivering)))
+            routes.append(
+                Route(
+                    element=element,
+                    pickup=near,
+                    corners=tuple(corners),
+                    bodies=between,
+                    receiving_rods=(rod.name,),
+                    delivering_rods=tuple(delivering),
+                )
+            )
     return RouteMap(tuple(routes), tuple(guides))
 
 
@@ -121,8 +130,13 @@ def _component(start: str, neighbours: dict[str, set[str]], stops: set[str]) -> 
     return seen
 
 
-def _distance(start: str, corner: str, neighbours: dict[str, set[str]],
-              corner_of: dict[str, str], stops: set[str]) -> int:
+def _distance(
+    start: str,
+    corner: str,
+    neighbours: dict[str, set[str]],
+    corner_of: dict[str, str],
+    stops: set[str],
+) -> int:
     """Number of joints from ``start`` to the nearest body of ``corner``."""
     seen = {start: 0}
     queue = deque([start])

@@ -88,7 +88,7 @@ def tangent(link: Linkage, drive: Drive, kin: Kinematics, jac: Array) -> Array:
     m = jac.shape[1]
     nc = p_jac.shape[1]
     full = np.zeros((jac.shape[0], m, p_jac.shape[2]))
-    full[:, m - nc:] = p_jac
+    full[:, m - nc :] = p_jac
     if m == jac.shape[2]:
         try:
             return -np.linalg.solve(jac, full)
@@ -173,10 +173,15 @@ def _put(pose: Pose, index: NDArray[np.intp], values: Pose) -> Pose:
     return Pose(joint, rotation, centre)
 
 
-def _put_kin(kin: Kinematics, index: NDArray[np.intp], src: Kinematics,
-             src_index: NDArray[np.intp]) -> Kinematics:
-    rot, trans, pts, cols = (kin.rotation.copy(), kin.translation.copy(), kin.points.copy(),
-                             kin.columns.copy())
+def _put_kin(
+    kin: Kinematics, index: NDArray[np.intp], src: Kinematics, src_index: NDArray[np.intp]
+) -> Kinematics:
+    rot, trans, pts, cols = (
+        kin.rotation.copy(),
+        kin.translation.copy(),
+        kin.points.copy(),
+        kin.columns.copy(),
+    )
     rot[index], trans[index] = src.rotation[src_index], src.translation[src_index]
     pts[index], cols[index] = src.points[src_index], src.columns[src_index]
     return Kinematics(rot, trans, pts, cols)
@@ -209,8 +214,9 @@ def solve_poses(
     signs0 = _branch_sign(jac0, rows)  # (G,)
     tan0 = tangent(link, base_drive, kin0, jac0)  # (G, nq, npar)
     start = base.repeat(count) if designs == 1 else base
-    guess = link.advance(start, np.einsum("bqp,bp->bq", np.broadcast_to(
-        tan0, (count, *tan0.shape[1:])), params))
+    guess = link.advance(
+        start, np.einsum("bqp,bp->bq", np.broadcast_to(tan0, (count, *tan0.shape[1:])), params)
+    )
     solved, ok = newton(link, drive, guess)
     ok &= _branch_sign(solved.jacobian, rows) == signs0
     if ok.all():
@@ -220,8 +226,16 @@ def solve_poses(
     if designs > 1:  # each candidate design marches from its own design pose
         for i in np.flatnonzero(~ok):
             one, one_drive = _subset(link, drive, np.array([i]))
-            pose_i = _continue(one, one_drive, base.take(int(i)), zero[0], params[i],
-                               (rows, signs0[i:i + 1]), sweep_name, describe)
+            pose_i = _continue(
+                one,
+                one_drive,
+                base.take(int(i)),
+                zero[0],
+                params[i],
+                (rows, signs0[i : i + 1]),
+                sweep_name,
+                describe,
+            )
             fixes.append((int(i), pose_i))
     else:
         done_params = params[ok]
@@ -232,8 +246,9 @@ def solve_poses(
                 near = int(np.argmin(np.linalg.norm(done_params - params[i], axis=1)))
                 if np.linalg.norm(done_params[near] - params[i]) < np.linalg.norm(params[i]):
                     start_pose, start_par = done_pose.take(near), done_params[near]
-            pose_i = _continue(link, drive, start_pose, start_par, params[i],
-                               (rows, signs0), sweep_name, describe)
+            pose_i = _continue(
+                link, drive, start_pose, start_par, params[i], (rows, signs0), sweep_name, describe
+            )
             fixes.append((int(i), pose_i))
             done_params = np.vstack((done_params, params[i]))
             done_pose = concatenate_poses([done_pose, pose_i])
@@ -304,8 +319,9 @@ DEAD_POINT_DEG = 10.0
 reached is named as the cause when the linkage stops assembling."""
 
 
-def _diagnose(link: Linkage, solved: Solved, last_kin: Kinematics,
-              last_jac: Array) -> tuple[str, str]:
+def _diagnose(
+    link: Linkage, solved: Solved, last_kin: Kinematics, last_jac: Array
+) -> tuple[str, str]:
     """Name the member that fails.
 
     Near the last pose reached: a rod end at a dead point (transmission angle near 0°
@@ -320,20 +336,24 @@ def _diagnose(link: Linkage, solved: Solved, last_kin: Kinematics,
         j = int(np.argmin(off))
         if off[j] < DEAD_POINT_DEG:
             rod, body = joint_labels(link)[j]
-            return rod, (f"rod '{rod}' reaches a dead point at '{body}' (transmission angle "
-                         f"{mu[0, j]:.1f}°): it is in line with the arm and cannot push the "
-                         "linkage further")
+            return rod, (
+                f"rod '{rod}' reaches a dead point at '{body}' (transmission angle "
+                f"{mu[0, j]:.1f}°): it is in line with the arm and cannot push the "
+                "linkage further"
+            )
     labels = [*link.row_labels(), *(f"corner '{c}' driver" for c in link.corner_names)]
     u, sigma, _ = np.linalg.svd(last_jac[0])
     if sigma.size and sigma[-1] < 1e-3 * sigma[0]:
         weight = np.abs(u[:, -1])
-        weight[len(link.rod_names):] = 0.0  # name a rod
+        weight[len(link.rod_names) :] = 0.0  # name a rod
         if weight.any():
             row = int(np.argmax(weight))
             name = labels[row]
             member = name.split("'")[1] if "'" in name else name
-            return member, (f"{name} reaches a dead point: the linkage would have to flip "
-                            "to its other assembly to go further")
+            return member, (
+                f"{name} reaches a dead point: the linkage would have to flip "
+                "to its other assembly to go further"
+            )
     row = int(np.argmax(np.abs(solved.residual[0])))
     name = labels[row]
     member = name.split("'")[1] if "'" in name else name

@@ -75,8 +75,9 @@ def sweep_specs(link: Linkage, sweeps: Sweeps) -> list[SweepSpec]:
     specs: list[SweepSpec] = []
     if sweeps.travel_mm is not None:
         s = np.linspace(*sweeps.travel_mm, sweeps.travel_steps)
-        specs.append(SweepSpec("travel", TravelDrive(np.repeat(s[:, None], nc, axis=1)),
-                               {"travel_mm": s}))
+        specs.append(
+            SweepSpec("travel", TravelDrive(np.repeat(s[:, None], nc, axis=1)), {"travel_mm": s})
+        )
     for name, rng, steps, column in (
         ("heave", sweeps.heave_mm, sweeps.heave_steps, 0),
         ("roll", sweeps.roll_deg, sweeps.roll_steps, 1),
@@ -96,15 +97,21 @@ def sweep_specs(link: Linkage, sweeps: Sweeps) -> list[SweepSpec]:
         params = np.zeros((hh.size, 3))
         params[:, 0] = hh.ravel()
         params[:, 1] = np.radians(rr.ravel())
-        specs.append(SweepSpec("heave_roll", BodyDrive(params, centre),
-                               {"heave_mm": hh.ravel(), "roll_deg": rr.ravel()}))
+        specs.append(
+            SweepSpec(
+                "heave_roll",
+                BodyDrive(params, centre),
+                {"heave_mm": hh.ravel(), "roll_deg": rr.ravel()},
+            )
+        )
     return specs
 
 
 def run_sweep(link: Linkage, spec: SweepSpec) -> SweepResult:
     """Solve one sweep; raises AssemblyError where the linkage does not assemble."""
-    solved = solve_poses(link, spec.drive, sweep_name=spec.name,
-                         describe=lambda p: _describe_parameters(spec, p))
+    solved = solve_poses(
+        link, spec.drive, sweep_name=spec.name, describe=lambda p: _describe_parameters(spec, p)
+    )
     tan = tangent(link, spec.drive, solved.kin, solved.jacobian)
     return SweepResult(spec, solved, tan)
 
@@ -112,8 +119,11 @@ def run_sweep(link: Linkage, spec: SweepSpec) -> SweepResult:
 def _describe_parameters(spec: SweepSpec, params: Array) -> str:
     if spec.is_travel:
         return describe_values({"travel_mm": float(params[0])})
-    values = {"heave_mm": float(params[0]), "roll_deg": float(np.degrees(params[1])),
-              "pitch_deg": float(np.degrees(params[2]))}
+    values = {
+        "heave_mm": float(params[0]),
+        "roll_deg": float(np.degrees(params[1])),
+        "pitch_deg": float(np.degrees(params[2])),
+    }
     return describe_values({k: v for k, v in values.items() if v != 0.0} or values)
 
 

@@ -33,16 +33,21 @@ def hinged_rod_ends(link: Linkage) -> tuple[NDArray[np.intp], NDArray[np.intp], 
                     rods.append(r)
                     here.append(p)
                     there.append(o)
-        link._cache[key] = (np.array(rods, dtype=np.intp), np.array(here, dtype=np.intp),
-                            np.array(there, dtype=np.intp))
+        link._cache[key] = (
+            np.array(rods, dtype=np.intp),
+            np.array(here, dtype=np.intp),
+            np.array(there, dtype=np.intp),
+        )
     return link._cache[key]  # type: ignore[return-value]
 
 
 def joint_labels(link: Linkage) -> list[tuple[str, str]]:
     """(rod name, body name) of each rod end on a hinged body."""
     rods, here, _ = hinged_rod_ends(link)
-    return [(link.rod_names[r], link.body_names[link.point_body[p]])
-            for r, p in zip(rods, here, strict=True)]
+    return [
+        (link.rod_names[r], link.body_names[link.point_body[p]])
+        for r, p in zip(rods, here, strict=True)
+    ]
 
 
 def _geometry(link: Linkage, kin: Kinematics) -> tuple[Array, Array, Array, Array]:
@@ -70,6 +75,9 @@ def transmission_angles(link: Linkage, kin: Kinematics) -> tuple[Array, Array]:
     cos = np.sum(arm * rod_p, axis=-1)
     sine = np.linalg.norm(cross(arm, rod_p), axis=-1)
     mu = np.degrees(np.arctan2(sine, cos))
-    tilt = np.degrees(np.arcsin(np.clip(np.abs(np.sum(rod * axis, axis=-1))
-                                        / np.linalg.norm(rod, axis=-1), 0.0, 1.0)))
+    tilt = np.degrees(
+        np.arcsin(
+            np.clip(np.abs(np.sum(rod * axis, axis=-1)) / np.linalg.norm(rod, axis=-1), 0.0, 1.0)
+        )
+    )
     return mu, tilt

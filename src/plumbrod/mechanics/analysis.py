@@ -55,15 +55,19 @@ def locate(design: Design) -> tuple[Linkage, Mobility, RouteMap]:
         first = mobility.free_motions[0]
         more = len(mobility.free_motions) - 1
         tail = f" (and {more} more free motion{'s' if more > 1 else ''})" if more else ""
-        raise LocationError(first.split("'")[1], "free",
-                            f"{design.source}: not exactly located: {first}{tail}")
+        raise LocationError(
+            first.split("'")[1], "free", f"{design.source}: not exactly located: {first}{tail}"
+        )
     routes = find_routes(design)
     for element in design.elements:
         if not routes.for_element(element.name):
-            raise LocationError(element.name, "free",
-                                f"{design.source}: element '{element.name}' has no route to "
-                                "a corner: every rod from it ends on the chassis; join one "
-                                "of its pickups to a rocker, wishbone or upright")
+            raise LocationError(
+                element.name,
+                "free",
+                f"{design.source}: element '{element.name}' has no route to "
+                "a corner: every rod from it ends on the chassis; join one "
+                "of its pickups to a rocker, wishbone or upright",
+            )
     return link, mobility, routes
 
 
@@ -75,6 +79,11 @@ def analyse(design: Design) -> Analysis:
     figures = {name: sweep_figures(link, routes, res) for name, res in sweeps.items()}
     cases = design_load_cases(design)
     loads = applied_loads(design, link, members, routes, cases) if cases else None
-    statics = {} if loads is None else {
-        name: solve_statics(link, routes, members, loads, res) for name, res in sweeps.items()}
+    statics = (
+        {}
+        if loads is None
+        else {
+            name: solve_statics(link, routes, members, loads, res) for name, res in sweeps.items()
+        }
+    )
     return Analysis(design, link, mobility, routes, sweeps, figures, members, loads, statics)

@@ -56,8 +56,9 @@ def design_load_cases(design: Design) -> tuple[LoadCase, ...]:
         return ()
     return (
         LoadCase("top-speed", design.top_speed_kmh),
-        LoadCase(f"top-speed-bump-{DEFAULT_BUMP_G:g}g", design.top_speed_kmh,
-                 bump_g=DEFAULT_BUMP_G),
+        LoadCase(
+            f"top-speed-bump-{DEFAULT_BUMP_G:g}g", design.top_speed_kmh, bump_g=DEFAULT_BUMP_G
+        ),
     )
 
 
@@ -69,8 +70,11 @@ def aero_force_N(element: Element, case: LoadCase) -> tuple[float, float, float]
         return (0.0, 0.0, 0.0)
     q = dynamic_pressure_Pa(case.speed_kmh, case.air_density_kg_m3)
     area = element.aero.reference_area_m2
-    return (-q * area * element.aero.drag_coefficient, 0.0,
-            -q * area * element.aero.downforce_coefficient)
+    return (
+        -q * area * element.aero.drag_coefficient,
+        0.0,
+        -q * area * element.aero.downforce_coefficient,
+    )
 
 
 @dataclass(frozen=True)
@@ -102,8 +106,13 @@ def _inertia(mass_kg: float, case: LoadCase) -> tuple[float, float, float]:
     return (-w * case.longitudinal_g, -w * case.lateral_g, -w * (1.0 + case.bump_g))
 
 
-def applied_loads(design: Design, link: Linkage, members: dict[str, Member],
-                  routes: RouteMap, cases: tuple[LoadCase, ...]) -> AppliedLoads:
+def applied_loads(
+    design: Design,
+    link: Linkage,
+    members: dict[str, Member],
+    routes: RouteMap,
+    cases: tuple[LoadCase, ...],
+) -> AppliedLoads:
     """Aero and mass loads of every case on every body."""
     elements = tuple(e.name for e in design.elements)
     owner_of_body: dict[str, int] = {}
@@ -129,8 +138,13 @@ def applied_loads(design: Design, link: Linkage, members: dict[str, Member],
     owners: list[int] = []
     forces: list[list[tuple[float, float, float]]] = []
 
-    def add(label: str, body: str, point: tuple[float, float, float], owner: int,
-            per_case: list[tuple[float, float, float]]) -> None:
+    def add(
+        label: str,
+        body: str,
+        point: tuple[float, float, float],
+        owner: int,
+        per_case: list[tuple[float, float, float]],
+    ) -> None:
         labels.append(label)
         bodies.append(link.body(body))
         points.append(point)
@@ -138,26 +152,46 @@ def applied_loads(design: Design, link: Linkage, members: dict[str, Member],
         forces.append(per_case)
 
     for e, element in enumerate(design.elements):
-        add(f"{element.name} aero", element.name, element.centre_of_pressure_mm, e,
-            [aero_force_N(element, c) for c in cases])
-        add(f"{element.name} mass", element.name, element.cg_mm, e,
-            [_inertia(element.mass_kg, c) for c in cases])
+        add(
+            f"{element.name} aero",
+            element.name,
+            element.centre_of_pressure_mm,
+            e,
+            [aero_force_N(element, c) for c in cases],
+        )
+        add(
+            f"{element.name} mass",
+            element.name,
+            element.cg_mm,
+            e,
+            [_inertia(element.mass_kg, c) for c in cases],
+        )
     for rocker in design.rockers:
         mass = rocker_mass_kg(design, rocker)
         if not mass:
             continue
         picks = [p.position_mm for p in design.pickups.values() if p.body == rocker.name]
         centroid = tuple(float(v) for v in np.mean(picks, axis=0)) if picks else rocker.axis_a_mm
-        add(f"{rocker.name} mass", rocker.name, centroid,  # type: ignore[arg-type]
-            owner_of_body.get(rocker.name, 0), [_inertia(mass, c) for c in cases])
+        add(
+            f"{rocker.name} mass",
+            rocker.name,
+            centroid,  # type: ignore[arg-type]
+            owner_of_body.get(rocker.name, 0),
+            [_inertia(mass, c) for c in cases],
+        )
     for rod in design.rods:
         half = members[rod.name].mass_kg / 2.0
         for end in (rod.end_a, rod.end_b):
             pickup = design.pickups[end]
             if pickup.body == "chassis":
                 continue
-            add(f"rod {rod.name} mass", pickup.body, pickup.position_mm,
-                owner_of_rod.get(rod.name, 0), [_inertia(half, c) for c in cases])
+            add(
+                f"rod {rod.name} mass",
+                pickup.body,
+                pickup.position_mm,
+                owner_of_rod.get(rod.name, 0),
+                [_inertia(half, c) for c in cases],
+            )
     k = len(cases)
     force = np.array(forces, dtype=float).reshape(len(labels), k, 3).transpose(1, 0, 2)
     left_out: list[str] = []
@@ -168,9 +202,16 @@ def applied_loads(design: Design, link: Linkage, members: dict[str, Member],
             if np.any(dropped != 0.0):
                 left_out.append(
                     f"load case '{case.name}': {np.abs(dropped).sum():.1f} N along "
-                    f"{'xyz'[axis]} left out (normal to the {design.plane} view)")
+                    f"{'xyz'[axis]} left out (normal to the {design.plane} view)"
+                )
         force[:, :, axis] = 0.0
     return AppliedLoads(
-        cases=tuple(c.name for c in cases), elements=elements, labels=tuple(labels),
-        body=np.array(bodies, dtype=np.intp), point_mm=np.array(points, dtype=float),
-        owner=np.array(owners, dtype=np.intp), force_N=force, left_out=tuple(left_out))
+        cases=tuple(c.name for c in cases),
+        elements=elements,
+        labels=tuple(labels),
+        body=np.array(bodies, dtype=np.intp),
+        point_mm=np.array(points, dtype=float),
+        owner=np.array(owners, dtype=np.intp),
+        force_N=force,
+        left_out=tuple(left_out),
+    )

@@ -80,8 +80,9 @@ def mass_report(analysis: Analysis) -> MassReport:
     nc = len(link.corner_names)
     spec = SweepSpec("design", TravelDrive(np.zeros((1, nc))), {"travel_mm": np.zeros(1)})
     result = run_sweep(link, spec)
-    gravity = applied_loads(design, link, analysis.members, analysis.routes,
-                            (LoadCase("gravity", 0.0),))
+    gravity = applied_loads(
+        design, link, analysis.members, analysis.routes, (LoadCase("gravity", 0.0),)
+    )
     share = solve_statics(link, analysis.routes, analysis.members, gravity, result)
     static_kg = share.contact_force_N[0, 0] / STANDARD_GRAVITY_M_S2
 
@@ -94,10 +95,15 @@ def mass_report(analysis: Analysis) -> MassReport:
         if element.inertia_kg_m2 is None:
             estimated.append(element.name)
     corners = tuple(
-        CornerMass(corner=name, static_share_kg=float(static_kg[c]),
-                   kinetic_single_kg=float(energy[c]), kinetic_heave_kg=float(energy[-1] / nc),
-                   existing_kg=design.corner(name).unsprung_mass_kg)
-        for c, name in enumerate(link.corner_names))
+        CornerMass(
+            corner=name,
+            static_share_kg=float(static_kg[c]),
+            kinetic_single_kg=float(energy[c]),
+            kinetic_heave_kg=float(energy[-1] / nc),
+            existing_kg=design.corner(name).unsprung_mass_kg,
+        )
+        for c, name in enumerate(link.corner_names)
+    )
     return MassReport(bodies, corners, tuple(estimated))
 
 

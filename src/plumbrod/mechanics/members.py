@@ -57,22 +57,32 @@ def material_table(design: Design) -> Mapping[str, Material]:
     table = dict(load_materials())
     for spec in design.materials:
         table[spec.id] = Material(
-            id=spec.id, name=f"{spec.id} (from the design file)", modulus_MPa=spec.modulus_MPa,
-            yield_MPa=spec.yield_MPa, ultimate_MPa=spec.ultimate_MPa,
-            density_kg_m3=spec.density_kg_m3, basis="minimum" if "min" in spec.source.lower()
-            else "typical", source=spec.source)
+            id=spec.id,
+            name=f"{spec.id} (from the design file)",
+            modulus_MPa=spec.modulus_MPa,
+            yield_MPa=spec.yield_MPa,
+            ultimate_MPa=spec.ultimate_MPa,
+            density_kg_m3=spec.density_kg_m3,
+            basis="minimum" if "min" in spec.source.lower() else "typical",
+            source=spec.source,
+        )
     return table
 
 
-def _material(design: Design, table: Mapping[str, Material], material_id: str,
-              key: str) -> Material:
+def _material(
+    design: Design, table: Mapping[str, Material], material_id: str, key: str
+) -> Material:
     try:
         return lookup_material(material_id, table)
     except UnknownMaterialError as exc:
-        hint = (f"did you mean '{exc.suggestions[0]}'?" if exc.suggestions else
-                "see `plumbrod column --list-materials`, or add it under [materials]")
-        raise DesignFileError(design.source, key, f"unknown material '{material_id}'",
-                              hint) from None
+        hint = (
+            f"did you mean '{exc.suggestions[0]}'?"
+            if exc.suggestions
+            else "see `plumbrod column --list-materials`, or add it under [materials]"
+        )
+        raise DesignFileError(
+            design.source, key, f"unknown material '{material_id}'", hint
+        ) from None
 
 
 def resolve_members(design: Design) -> dict[str, Member]:
@@ -96,5 +106,9 @@ def rocker_material(design: Design, rocker_name: str) -> Material | None:
     rocker = next(r for r in design.rockers if r.name == rocker_name)
     if rocker.plate is None:
         return None
-    return _material(design, material_table(design), rocker.plate.material,
-                     f"rockers.{rocker.name}.plate.material")
+    return _material(
+        design,
+        material_table(design),
+        rocker.plate.material,
+        f"rockers.{rocker.name}.plate.material",
+    )

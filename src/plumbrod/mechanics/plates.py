@@ -22,17 +22,27 @@ __all__ = ["rocker_mass_kg", "rocker_outlines"]
 def _outline(design: Design, rocker: Rocker) -> PlateOutline:
     assert rocker.plate is not None
     plate = rocker.plate
-    pickups = {p.name: np.array(p.position_mm) for p in design.pickups.values()
-               if p.body == rocker.name}
+    pickups = {
+        p.name: np.array(p.position_mm) for p in design.pickups.values() if p.body == rocker.name
+    }
     holes = {name: plate.holes_mm.get(name, plate.hole_mm) for name in pickups}
     try:
-        return plate_outline(np.array(rocker.axis_a_mm), np.array(rocker.axis_b_mm), pickups,
-                             pivot_hole_mm=plate.pivot_hole_mm, pickup_hole_mm=holes,
-                             edge_margin_mm=plate.edge_margin_mm,
-                             thickness_mm=plate.thickness_mm)
+        return plate_outline(
+            np.array(rocker.axis_a_mm),
+            np.array(rocker.axis_b_mm),
+            pickups,
+            pivot_hole_mm=plate.pivot_hole_mm,
+            pickup_hole_mm=holes,
+            edge_margin_mm=plate.edge_margin_mm,
+            thickness_mm=plate.thickness_mm,
+        )
     except GeometryError as exc:
-        raise DesignFileError(design.source, f"rockers.{rocker.name}.plate", str(exc),
-                              "move the pickups apart or make the holes smaller") from None
+        raise DesignFileError(
+            design.source,
+            f"rockers.{rocker.name}.plate",
+            str(exc),
+            "move the pickups apart or make the holes smaller",
+        ) from None
 
 
 def rocker_outlines(design: Design) -> dict[str, PlateOutline]:
@@ -40,8 +50,9 @@ def rocker_outlines(design: Design) -> dict[str, PlateOutline]:
     return {r.name: _outline(design, r) for r in design.rockers if r.plate is not None}
 
 
-def rocker_mass_kg(design: Design, rocker: Rocker,
-                   outlines: dict[str, PlateOutline] | None = None) -> float:
+def rocker_mass_kg(
+    design: Design, rocker: Rocker, outlines: dict[str, PlateOutline] | None = None
+) -> float:
     """The rocker's mass: ``mass_kg`` when given, else its plate's, else 0."""
     if rocker.mass_kg is not None:
         return rocker.mass_kg

@@ -96,8 +96,13 @@ def _contact_drive(result: SweepResult) -> BodyDrive:
     return BodyDrive(np.zeros((result.spec.size, 3)))
 
 
-def solve_statics(link: Linkage, routes: RouteMap, members: dict[str, Member],
-                  loads: AppliedLoads, result: SweepResult) -> Statics:
+def solve_statics(
+    link: Linkage,
+    routes: RouteMap,
+    members: dict[str, Member],
+    loads: AppliedLoads,
+    result: SweepResult,
+) -> Statics:
     """Member forces, reactions, upright loads and leakage at every pose of a sweep."""
     kin = result.solved.kin
     n = result.spec.size
@@ -114,8 +119,9 @@ def solve_statics(link: Linkage, routes: RouteMap, members: dict[str, Member],
     m_rows, n_members = jac.shape[1], jac_m.shape[1]
 
     # applied loads: positions and forces in the chassis frame, per (case, element)
-    lp = (kin.rotation[:, loads.body] @ loads.point_mm[..., None])[..., 0] \
-        + kin.translation[:, loads.body]  # (B, nl, 3)
+    lp = (kin.rotation[:, loads.body] @ loads.point_mm[..., None])[..., 0] + kin.translation[
+        :, loads.body
+    ]  # (B, nl, 3)
     f_ground = np.broadcast_to(loads.force_N, (n, *loads.force_N.shape))  # (B, K, nl, 3)
     f_chassis = np.einsum("bji,bklj->bkli", rot, f_ground)  # rot^T f
     owner = np.eye(n_el)[loads.owner]  # (nl, E)
@@ -133,7 +139,8 @@ def solve_statics(link: Linkage, routes: RouteMap, members: dict[str, Member],
     if nbc and len(link.ball_names):
         balls = lam_k[:, nr:n_members].sum(axis=3).transpose(0, 2, 1)
         ball_force[..., list(link.ball_components)] = balls.reshape(
-            n, k_cases, len(link.ball_names), nbc)
+            n, k_cases, len(link.ball_names), nbc
+        )
     contact_force = lam_k[:, n_members:].sum(axis=3).transpose(0, 2, 1)
 
     # wrench (about the chassis origin) on every body from rows and loads, per column
@@ -144,8 +151,9 @@ def solve_statics(link: Linkage, routes: RouteMap, members: dict[str, Member],
     _add_point_forces(wrench, link.point_body[ends[:, 1]], kin.points[:, ends[:, 1]], -f_a)
     cw = contact.contact_wrench(link, kin)  # (B, nc, 6)
     contact_w = lam[:, n_members:, :, None] * cw[:, :, None, :]  # (B, nc, C, 6)
-    np.add.at(wrench, (slice(None), slice(None), link.corner_upright),
-              contact_w.transpose(0, 2, 1, 3))
+    np.add.at(
+        wrench, (slice(None), slice(None), link.corner_upright), contact_w.transpose(0, 2, 1, 3)
+    )
     f_load = np.einsum("bkli,le->blkei", f_chassis, owner).reshape(n, -1, cols, 3)
     _add_point_forces(wrench, loads.body, lp, f_load)
 
@@ -177,21 +185,33 @@ def solve_statics(link: Linkage, routes: RouteMap, members: dict[str, Member],
         return a.reshape(n, k_cases, n_el, *a.shape[2:]).sum(axis=2)
 
     return Statics(
-        sweep=result.name, cases=loads.cases, elements=loads.elements, elastic=elastic,
-        rod_force_N=rod_force, ball_force_N=ball_force, contact_force_N=contact_force,
-        joint_wrench=per_case(joint), axial_residual=per_case(axial),
-        imbalance=per_case(imbalance), chassis_wrench=chassis,
+        sweep=result.name,
+        cases=loads.cases,
+        elements=loads.elements,
+        elastic=elastic,
+        rod_force_N=rod_force,
+        ball_force_N=ball_force,
+        contact_force_N=contact_force,
+        joint_wrench=per_case(joint),
+        axial_residual=per_case(axial),
+        imbalance=per_case(imbalance),
+        chassis_wrench=chassis,
         leakage=_leakage(chassis, rot, trans, refs),
-        leakage_virtual_work=_virtual_work(link, kin, jac, n_members, contact, rot, trans,
-                                           refs, lp, jl, f_ground, owner),
+        leakage_virtual_work=_virtual_work(
+            link, kin, jac, n_members, contact, rot, trans, refs, lp, jl, f_ground, owner
+        ),
         vertical_load_N=np.broadcast_to(vertical, (n, k_cases, n_el)).copy(),
-        applied_wrench=applied, upright_force_N=up_f, upright_moment_Nm=up_m,
-        corner_force_N=corner_f, corner_moment_Nm=corner_m,
+        applied_wrench=applied,
+        upright_force_N=up_f,
+        upright_moment_Nm=up_m,
+        corner_force_N=corner_f,
+        corner_moment_Nm=corner_m,
     )
 
 
-def _add_point_forces(wrench: Array, bodies: NDArray[np.intp], points: Array,
-                      forces: Array) -> None:
+def _add_point_forces(
+    wrench: Array, bodies: NDArray[np.intp], points: Array, forces: Array
+) -> None:
     """Add forces (B, n, C, 3) at points (B, n, 3) on bodies (n,) to wrench (B, C, nb, 6)."""
     w = np.concatenate((forces, cross(points[:, :, None, :], forces)), axis=-1)
     np.add.at(wrench, (slice(None), slice(None), bodies), w.transpose(0, 2, 1, 3))
@@ -256,9 +276,20 @@ def _leakage(chassis: Array, rot: Array, trans: Array, refs: Array) -> Array:
 _GROUND_AXES = np.eye(3)
 
 
-def _virtual_work(link: Linkage, kin: Kinematics, jac: Array, n_members: int,
-                  contact: BodyDrive, rot: Array, trans: Array, refs: Array, lp: Array,
-                  jl: Array, f_ground: Array, owner: Array) -> Array:
+def _virtual_work(
+    link: Linkage,
+    kin: Kinematics,
+    jac: Array,
+    n_members: int,
+    contact: BodyDrive,
+    rot: Array,
+    trans: Array,
+    refs: Array,
+    lp: Array,
+    jl: Array,
+    f_ground: Array,
+    owner: Array,
+) -> Array:
     """(B, K, E, 3) leakage by virtual work: Σ F·δp for a chassis heave, and for roll and
     pitch about ground axes through each element's reference point, wheels on the
     ground (N, N·m)."""
@@ -292,9 +323,15 @@ def _virtual_work(link: Linkage, kin: Kinematics, jac: Array, n_members: int,
     return out
 
 
-def _upright_loads(link: Linkage, routes: RouteMap, kin: Kinematics, grad: Array,
-                   ends: NDArray[np.intp], lam_k: Array,
-                   rot: Array) -> tuple[dict[str, Array], dict[str, Array]]:
+def _upright_loads(
+    link: Linkage,
+    routes: RouteMap,
+    kin: Kinematics,
+    grad: Array,
+    ends: NDArray[np.intp],
+    lam_k: Array,
+    rot: Array,
+) -> tuple[dict[str, Array], dict[str, Array]]:
     """Force (N) and moment about the wheel centre (N·m) each route's delivering rods
     put on their corner, in the ground frame: (B, K, 3) per route."""
     forces: dict[str, Array] = {}

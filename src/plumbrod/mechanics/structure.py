@@ -66,8 +66,7 @@ def capacity(member: Member) -> tuple[float, str, float, float, float]:
     area, inertia = s.area_mm2, s.second_moment_mm4
     slender = k * member.length_mm / float(np.sqrt(inertia / area))
     lam_t = float(transition_slenderness(m.modulus_MPa, m.yield_MPa))
-    p_cr = float(critical_load_N(area, inertia, member.length_mm, k, m.modulus_MPa,
-                                 m.yield_MPa))
+    p_cr = float(critical_load_N(area, inertia, member.length_mm, k, m.modulus_MPa, m.yield_MPa))
     regime = "euler" if slender >= lam_t else "johnson"
     return p_cr, regime, slender, lam_t, float(tension_capacity_N(area, m.yield_MPa))
 

@@ -30,14 +30,16 @@ def _prepare(target: Path, writer: Callable[[Path], None]) -> Path:
         if target.is_dir():
             raise OutputError(str(target), "is a folder", "give a file name")
         target.parent.mkdir(parents=True, exist_ok=True)
-        fd, tmp_name = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp",
-                                        dir=target.parent)
+        fd, tmp_name = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=target.parent)
         os.close(fd)
     except OutputError:
         raise
     except OSError as exc:
-        raise OutputError(str(target), f"cannot be written ({exc.strerror or exc})",
-                          "choose a path in a folder you can write to") from None
+        raise OutputError(
+            str(target),
+            f"cannot be written ({exc.strerror or exc})",
+            "choose a path in a folder you can write to",
+        ) from None
     tmp = Path(tmp_name)
     try:
         writer(tmp)
@@ -45,8 +47,11 @@ def _prepare(target: Path, writer: Callable[[Path], None]) -> Path:
     except BaseException as exc:
         tmp.unlink(missing_ok=True)
         if isinstance(exc, OSError):
-            raise OutputError(str(target), f"cannot be written ({exc.strerror or exc})",
-                              "check the disk and the folder's permissions") from None
+            raise OutputError(
+                str(target),
+                f"cannot be written ({exc.strerror or exc})",
+                "check the disk and the folder's permissions",
+            ) from None
         raise
     return tmp
 
@@ -63,8 +68,9 @@ def write_with(path: str | os.PathLike[str], writer: Callable[[Path], None]) -> 
         os.replace(tmp, target)
     except OSError as exc:
         tmp.unlink(missing_ok=True)
-        raise OutputError(str(target), f"cannot be written ({exc.strerror or exc})",
-                          "choose another path") from None
+        raise OutputError(
+            str(target), f"cannot be written ({exc.strerror or exc})", "choose another path"
+        ) from None
     return target
 
 
@@ -84,8 +90,7 @@ def write_many(files: Mapping[str | os.PathLike[str], str | bytes]) -> list[Path
         for path, data in files.items():
             payload = data.encode("utf-8") if isinstance(data, str) else data
             target = Path(path)
-            staged.append((_prepare(target, lambda tmp, p=payload: tmp.write_bytes(p)),
-                           target))
+            staged.append((_prepare(target, lambda tmp, p=payload: tmp.write_bytes(p)), target))
     except BaseException:
         for tmp, _ in staged:
             tmp.unlink(missing_ok=True)

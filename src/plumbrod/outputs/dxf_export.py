@@ -101,8 +101,17 @@ HARDPOINTS = LayerSpec("HARDPOINTS", 7)
 LABELS = LayerSpec("LABELS", 250)
 TITLE = LayerSpec("TITLE", 7)
 ROUTE_LAYERS: tuple[LayerSpec, ...] = (
-    ROUTE_RODS, GUIDE_RODS, ROCKER_AXES, ROCKER_ARMS, ROCKER_PLATES, SUSPENSION, TYRES,
-    ZONES, HARDPOINTS, LABELS, TITLE,
+    ROUTE_RODS,
+    GUIDE_RODS,
+    ROCKER_AXES,
+    ROCKER_ARMS,
+    ROCKER_PLATES,
+    SUSPENSION,
+    TYRES,
+    ZONES,
+    HARDPOINTS,
+    LABELS,
+    TITLE,
 )
 
 # -- plate drawing layers ---------------------------------------------------------------
@@ -128,16 +137,20 @@ def _ezdxf() -> Any:
 
     found = tuple(int(p) for p in re.findall(r"\d+", ezdxf.__version__)[:3])
     if found < MIN_EZDXF:
-        raise PlumbrodError(f"ezdxf: expected version >= {'.'.join(map(str, MIN_EZDXF))}, "
-                            f"got {ezdxf.__version__}; upgrade it (pip install -U ezdxf)")
+        raise PlumbrodError(
+            f"ezdxf: expected version >= {'.'.join(map(str, MIN_EZDXF))}, "
+            f"got {ezdxf.__version__}; upgrade it (pip install -U ezdxf)"
+        )
     return ezdxf
 
 
 def _check_version(dxf_version: str) -> str:
     if dxf_version not in DXF_VERSIONS:
-        raise UsageError("dxf_version", f"expected one of {', '.join(DXF_VERSIONS)}, "
-                         f"got {dxf_version!r}", "R2010 suits current CAD, R2000 older "
-                         "cutting software")
+        raise UsageError(
+            "dxf_version",
+            f"expected one of {', '.join(DXF_VERSIONS)}, got {dxf_version!r}",
+            "R2010 suits current CAD, R2000 older cutting software",
+        )
     return dxf_version
 
 
@@ -156,8 +169,15 @@ def _new_document(dxf_version: str, layers: Iterable[LayerSpec]) -> Drawing:
     return doc
 
 
-def _text(msp: Modelspace, text: str, insert: Iterable[float], height: float, layer: str,
-          *, align: str = "LEFT") -> None:
+def _text(
+    msp: Modelspace,
+    text: str,
+    insert: Iterable[float],
+    height: float,
+    layer: str,
+    *,
+    align: str = "LEFT",
+) -> None:
     from ezdxf.enums import TextEntityAlignment
 
     entity = msp.add_text(text, height=height, dxfattribs={"layer": layer, "style": "Standard"})
@@ -211,8 +231,9 @@ def _plane_axes(normal: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     return a, np.cross(n, a)
 
 
-def _circle_3d(msp: Modelspace, centre: np.ndarray, radius: float, normal: np.ndarray,
-               layer: str) -> None:
+def _circle_3d(
+    msp: Modelspace, centre: np.ndarray, radius: float, normal: np.ndarray, layer: str
+) -> None:
     """A CIRCLE in the plane normal to ``normal`` through ``centre`` (WCS, mm): the
     centre is stored in the circle's object coordinate system."""
     from ezdxf.math import OCS
@@ -223,13 +244,15 @@ def _circle_3d(msp: Modelspace, centre: np.ndarray, radius: float, normal: np.nd
 
 
 def _line(msp: Modelspace, a: Iterable[float], b: Iterable[float], layer: str) -> None:
-    msp.add_line(tuple(float(c) for c in a), tuple(float(c) for c in b),
-                 dxfattribs={"layer": layer})
+    msp.add_line(
+        tuple(float(c) for c in a), tuple(float(c) for c in b), dxfattribs={"layer": layer}
+    )
 
 
 def _polyline_3d(msp: Modelspace, points: np.ndarray, layer: str) -> None:
-    msp.add_polyline3d([tuple(float(c) for c in p) for p in points], close=True,
-                       dxfattribs={"layer": layer})
+    msp.add_polyline3d(
+        [tuple(float(c) for c in p) for p in points], close=True, dxfattribs={"layer": layer}
+    )
 
 
 def _profile_vertices(profile: PlateProfile) -> list[tuple[float, float, float]]:
@@ -243,8 +266,7 @@ def _profile_vertices(profile: PlateProfile) -> list[tuple[float, float, float]]
         if arc.sweep_rad <= _ARC_MIN_RAD:
             raw.append((*arc.start_uv, 0.0))
             continue
-        start, end, bulge = arc_to_bulge(arc.centre_uv, arc.start_rad, arc.end_rad,
-                                         arc.radius_mm)
+        start, end, bulge = arc_to_bulge(arc.centre_uv, arc.start_rad, arc.end_rad, arc.radius_mm)
         raw.append((start.x, start.y, bulge))
         raw.append((end.x, end.y, 0.0))
     out: list[tuple[float, float, float]] = []
@@ -288,18 +310,19 @@ def _draw_rods(msp: Modelspace, design: Design, guides: set[str], height: float)
         layer = GUIDE_RODS.name if rod.name in guides else ROUTE_RODS.name
         _line(msp, a, b, layer)
         section = f"{rod.od_mm:g}" + (" bar" if rod.wall_mm is None else f"x{rod.wall_mm:g}")
-        _text(msp, f"{rod.name} {section} {rod.material}", (a + b) / 2.0, height,
-              LABELS.name)
+        _text(msp, f"{rod.name} {section} {rod.material}", (a + b) / 2.0, height, LABELS.name)
 
 
-def _draw_rockers(msp: Modelspace, analysis: Analysis, outlines: Mapping[str, PlateOutline],
-                  height: float) -> None:
+def _draw_rockers(
+    msp: Modelspace, analysis: Analysis, outlines: Mapping[str, PlateOutline], height: float
+) -> None:
     design = analysis.design
     for rocker in design.rockers:
         a0, a1 = np.array(rocker.axis_a_mm), np.array(rocker.axis_b_mm)
         axis = _unit(a1 - a0)
-        pickups = [np.array(p.position_mm) for p in design.pickups.values()
-                   if p.body == rocker.name]
+        pickups = [
+            np.array(p.position_mm) for p in design.pickups.values() if p.body == rocker.name
+        ]
         along = [float((p - a0) @ axis) for p in pickups] + [0.0, float((a1 - a0) @ axis)]
         lo = min(along) - ROCKER_AXIS_OVERHANG_MM
         hi = max(along) + ROCKER_AXIS_OVERHANG_MM
@@ -327,9 +350,12 @@ def _draw_plate_3d(msp: Modelspace, outline: PlateOutline) -> None:
         p = ocs.from_wcs(tuple(float(c) for c in outline.origin + u * outline.u + v * outline.v))
         vertices.append((p.x, p.y, bulge))
         elevation = p.z
-    msp.add_lwpolyline(vertices, format="xyb", close=True,
-                       dxfattribs={"layer": ROCKER_PLATES.name, "extrusion": normal,
-                                   "elevation": elevation})
+    msp.add_lwpolyline(
+        vertices,
+        format="xyb",
+        close=True,
+        dxfattribs={"layer": ROCKER_PLATES.name, "extrusion": normal, "elevation": elevation},
+    )
     for hole in outline.holes:
         centre = outline.origin + hole.centre_uv[0] * outline.u + hole.centre_uv[1] * outline.v
         _circle_3d(msp, centre, hole.diameter_mm / 2.0, outline.normal, ROCKER_PLATES.name)
@@ -340,9 +366,13 @@ def _draw_suspension(msp: Modelspace, design: Design) -> None:
         w = corner.wishbones
         if w is None:
             continue
-        segments = [(w.upper_front_mm, w.upper_outer_mm), (w.upper_rear_mm, w.upper_outer_mm),
-                    (w.lower_front_mm, w.lower_outer_mm), (w.lower_rear_mm, w.lower_outer_mm),
-                    (w.upper_outer_mm, w.lower_outer_mm)]
+        segments = [
+            (w.upper_front_mm, w.upper_outer_mm),
+            (w.upper_rear_mm, w.upper_outer_mm),
+            (w.lower_front_mm, w.lower_outer_mm),
+            (w.lower_rear_mm, w.lower_outer_mm),
+            (w.upper_outer_mm, w.lower_outer_mm),
+        ]
         if w.tie_rod_inner_mm is not None and w.tie_rod_outer_mm is not None:
             segments.append((w.tie_rod_inner_mm, w.tie_rod_outer_mm))
         drawn: list[tuple[tuple[float, ...], tuple[float, ...]]] = []
@@ -366,16 +396,20 @@ def _draw_tyres(msp: Modelspace, analysis: Analysis, height: float) -> None:
         for direction in (a, b, -a, -b):
             rim = centre + radius * direction
             _line(msp, rim - half * spin, rim + half * spin, TYRES.name)
-        _text(msp, f"tyre {corner.name} R{radius:g} W{corner.tyre_width_mm:g}",
-              centre + radius * b + half * spin, height, LABELS.name)
+        _text(
+            msp,
+            f"tyre {corner.name} R{radius:g} W{corner.tyre_width_mm:g}",
+            centre + radius * b + half * spin,
+            height,
+            LABELS.name,
+        )
 
 
 def _draw_zones(msp: Modelspace, analysis: Analysis, height: float) -> None:
     from plumbrod.clearance.survey import zone_solids
     from plumbrod.geometry.shapes import Box, Cylinder, Prism
 
-    for zone, (solid, _) in zip(analysis.design.zones, zone_solids(analysis).values(),
-                                strict=True):
+    for zone, (solid, _) in zip(analysis.design.zones, zone_solids(analysis).values(), strict=True):
         if isinstance(solid, Box):
             assert solid.rotation is not None
             signs = np.array([[-1, -1], [1, -1], [1, 1], [-1, 1]], dtype=float)
@@ -395,14 +429,15 @@ def _draw_zones(msp: Modelspace, analysis: Analysis, height: float) -> None:
                 _circle_3d(msp, end, radius, axis, ZONES.name)
             a, b = _plane_axes(axis)
             for direction in (a, b, -a, -b):
-                _line(msp, solid.p0 + radius * direction, solid.p1 + radius * direction,
-                      ZONES.name)
+                _line(msp, solid.p0 + radius * direction, solid.p1 + radius * direction, ZONES.name)
             centre = (solid.p0 + solid.p1) / 2.0
         else:
             assert isinstance(solid, Prism)
             poly = solid.polygon_2d
-            ends = [poly[:, :1] * solid.u + poly[:, 1:] * solid.v + depth * solid.w
-                    for depth in (solid.depth_min, solid.depth_max)]
+            ends = [
+                poly[:, :1] * solid.u + poly[:, 1:] * solid.v + depth * solid.w
+                for depth in (solid.depth_min, solid.depth_max)
+            ]
             for end in ends:
                 _polyline_3d(msp, end, ZONES.name)
             for k in range(len(poly)):
@@ -438,8 +473,13 @@ def route_drawing(analysis: Analysis, *, dxf_version: str = "R2010") -> Drawing:
     _draw_zones(msp, analysis, height)
     for position, names in _hardpoints(analysis):
         msp.add_point(tuple(float(c) for c in position), dxfattribs={"layer": HARDPOINTS.name})
-        _text(msp, " / ".join(names), position + np.array([height, 0.0, height]), height * 0.8,
-              LABELS.name)
+        _text(
+            msp,
+            " / ".join(names),
+            position + np.array([height, 0.0, height]),
+            height * 0.8,
+            LABELS.name,
+        )
 
     # title block on the ground plane, below everything in top view
     from ezdxf import bbox
@@ -455,17 +495,28 @@ def route_drawing(analysis: Analysis, *, dxf_version: str = "R2010") -> Drawing:
     ]
     # one MTEXT, so the lines stay stacked in whatever view the drawing is seen
     title_h = 1.5 * height
-    msp.add_mtext("\\P".join(lines), dxfattribs={
-        "layer": TITLE.name, "style": "Standard", "char_height": title_h,
-        "insert": (extents.extmin.x, extents.extmin.y - 2.0 * title_h, 0.0),
-        "attachment_point": 1,  # top left
-    })
+    msp.add_mtext(
+        "\\P".join(lines),
+        dxfattribs={
+            "layer": TITLE.name,
+            "style": "Standard",
+            "char_height": title_h,
+            "insert": (extents.extmin.x, extents.extmin.y - 2.0 * title_h, 0.0),
+            "attachment_point": 1,  # top left
+        },
+    )
     return _finish(doc)
 
 
 # -- plate drawing ---------------------------------------------------------------------
-def plate_drawing(outline: PlateOutline, name: str, *, material: str = "not given",
-                  design_name: str = "", dxf_version: str = "R2010") -> Drawing:
+def plate_drawing(
+    outline: PlateOutline,
+    name: str,
+    *,
+    material: str = "not given",
+    design_name: str = "",
+    dxf_version: str = "R2010",
+) -> Drawing:
     """One rocker plate, flat and 1:1, in its (u, v) frame (mm), for cutting.
 
     CUT_PROFILE: one closed LWPOLYLINE, the exact hull of the boss circles (tangent
@@ -478,8 +529,7 @@ def plate_drawing(outline: PlateOutline, name: str, *, material: str = "not give
     msp = doc.modelspace()
     profile = plate_profile(outline)
     vertices = _profile_vertices(profile)
-    msp.add_lwpolyline(vertices, format="xyb", close=True,
-                       dxfattribs={"layer": CUT_PROFILE.name})
+    msp.add_lwpolyline(vertices, format="xyb", close=True, dxfattribs={"layer": CUT_PROFILE.name})
     middle = np.mean([h.centre_uv for h in outline.holes], axis=0)
     for hole in outline.holes:
         r = hole.diameter_mm / 2.0
@@ -497,8 +547,14 @@ def plate_drawing(outline: PlateOutline, name: str, *, material: str = "not give
         else:
             align = "BOTTOM_CENTER" if inward[1] > 0 else "TOP_CENTER"
         anchor = np.array(hole.centre_uv) + inward * (r + 0.5 * PLATE_TEXT_MM)
-        _text(msp, f"{hole.name} d{hole.diameter_mm:g}", anchor, PLATE_TEXT_MM * 0.8,
-              NOTES.name, align=align)
+        _text(
+            msp,
+            f"{hole.name} d{hole.diameter_mm:g}",
+            anchor,
+            PLATE_TEXT_MM * 0.8,
+            NOTES.name,
+            align=align,
+        )
 
     pts = profile.sample_uv(0.1)
     lo = pts.min(axis=0)
@@ -515,14 +571,23 @@ def plate_drawing(outline: PlateOutline, name: str, *, material: str = "not give
     ]
     for hole in outline.holes:
         if abs(hole.axial_offset_mm) > 0.05:
-            lines.append(f"pickup '{hole.name}' sits {hole.axial_offset_mm:+.1f} mm off the "
-                         "plate plane along the axis: spacer")
-    lines.append(f"generated by plumbrod {__version__}; check webs, fits, edge distances and "
-                 "strength with a qualified engineer before cutting")
+            lines.append(
+                f"pickup '{hole.name}' sits {hole.axial_offset_mm:+.1f} mm off the "
+                "plate plane along the axis: spacer"
+            )
+    lines.append(
+        f"generated by plumbrod {__version__}; check webs, fits, edge distances and "
+        "strength with a qualified engineer before cutting"
+    )
     h = PLATE_TEXT_MM
     for k, line in enumerate(lines):
-        _text(msp, line, (lo[0], lo[1] - 3.0 * h - 1.7 * h * k), h * (1.4 if k == 0 else 1.0),
-              TITLE.name)
+        _text(
+            msp,
+            line,
+            (lo[0], lo[1] - 3.0 * h - 1.7 * h * k),
+            h * (1.4 if k == 0 else 1.0),
+            TITLE.name,
+        )
     return _finish(doc)
 
 
@@ -535,8 +600,9 @@ def _stem(design: Design) -> str:
     return stem
 
 
-def design_drawings(analysis: Analysis, *, dxf_version: str = "R2010",
-                    stem: str | None = None) -> dict[str, Drawing]:
+def design_drawings(
+    analysis: Analysis, *, dxf_version: str = "R2010", stem: str | None = None
+) -> dict[str, Drawing]:
     """Every drawing of a design by file name: ``<stem>-route.dxf`` and one
     ``<stem>-plate-<rocker>.dxf`` per rocker with plate data.  ``stem`` defaults to the
     design file's name without its suffix."""
@@ -549,13 +615,22 @@ def design_drawings(analysis: Analysis, *, dxf_version: str = "R2010",
     materials = {r.name: r.plate.material for r in design.rockers if r.plate is not None}
     for rocker, outline in rocker_outlines(design).items():
         out[f"{base}-plate-{rocker}.dxf"] = plate_drawing(
-            outline, rocker, material=materials[rocker], design_name=design.name,
-            dxf_version=dxf_version)
+            outline,
+            rocker,
+            material=materials[rocker],
+            design_name=design.name,
+            dxf_version=dxf_version,
+        )
     return out
 
 
-def export_design(analysis: Analysis, folder: str | os.PathLike[str],
-                  dxf_version: str = "R2010", *, stem: str | None = None) -> list[Path]:
+def export_design(
+    analysis: Analysis,
+    folder: str | os.PathLike[str],
+    dxf_version: str = "R2010",
+    *,
+    stem: str | None = None,
+) -> list[Path]:
     """Write the design's DXF files into ``folder`` (created if missing) and return their
     paths.  Every drawing is built first; then every file is written to a temporary file
     beside its target and renamed, so an error leaves no partial file and no new file."""

@@ -67,8 +67,9 @@ def view_matrix(view: str) -> Matrix44:
     return Matrix44(values)
 
 
-def preview_png(doc: Drawing, *, view: str = "top", dpi: int = 150,
-                width_in: float = 12.0) -> bytes:
+def preview_png(
+    doc: Drawing, *, view: str = "top", dpi: int = 150, width_in: float = 12.0
+) -> bytes:
     """A PNG image (bytes) of the drawing's model space on white, seen in ``view``.
 
     A copy of the drawing is turned into the view (the original is untouched).  Labels
@@ -106,7 +107,8 @@ def preview_png(doc: Drawing, *, view: str = "top", dpi: int = 150,
     props = LayoutProperties.from_layout(msp)
     props.set_colors("#FFFFFF")
     Frontend(RenderContext(copy), MatplotlibBackend(ax)).draw_layout(
-        msp, finalize=True, layout_properties=props)
+        msp, finalize=True, layout_properties=props
+    )
     x0, x1 = ax.get_xlim()
     y0, y1 = ax.get_ylim()
     aspect = (y1 - y0) / (x1 - x0) if x1 > x0 else 1.0

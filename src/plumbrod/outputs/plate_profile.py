@@ -49,8 +49,10 @@ class ProfileArc:
     def point_at(self, angle_rad: float) -> tuple[float, float]:
         """The point of the boss circle at ``angle_rad`` (u, v) mm."""
         cu, cv = self.centre_uv
-        return (cu + self.radius_mm * math.cos(angle_rad),
-                cv + self.radius_mm * math.sin(angle_rad))
+        return (
+            cu + self.radius_mm * math.cos(angle_rad),
+            cv + self.radius_mm * math.sin(angle_rad),
+        )
 
     @property
     def start_uv(self) -> tuple[float, float]:
@@ -99,8 +101,9 @@ class PlateProfile:
         """Points (n, 2) around the profile, counter-clockwise, without repeating the
         first: each arc split so that no chord strays more than ``chord_tol_mm``."""
         if not chord_tol_mm > 0:
-            raise GeometryError("PlateProfile.sample_uv.chord_tol_mm", "a tolerance > 0 in mm",
-                                repr(chord_tol_mm))
+            raise GeometryError(
+                "PlateProfile.sample_uv.chord_tol_mm", "a tolerance > 0 in mm", repr(chord_tol_mm)
+            )
         out: list[tuple[float, float]] = []
         for arc in self.arcs:
             r = arc.radius_mm
@@ -151,11 +154,17 @@ def circle_hull(
     centres = np.asarray(centres_uv, dtype=float).reshape(-1, 2)
     radii = np.asarray(radii_mm, dtype=float).reshape(-1)
     if len(centres) == 0 or len(centres) != len(radii):
-        raise GeometryError("circle_hull", "one radius per centre, at least one circle",
-                            f"{len(centres)} centres and {len(radii)} radii")
+        raise GeometryError(
+            "circle_hull",
+            "one radius per centre, at least one circle",
+            f"{len(centres)} centres and {len(radii)} radii",
+        )
     if not (np.all(np.isfinite(centres)) and np.all(np.isfinite(radii)) and np.all(radii > 0)):
-        raise GeometryError("circle_hull", "finite centres and radii > 0 in mm",
-                            f"centres {centres.tolist()}, radii {radii.tolist()}")
+        raise GeometryError(
+            "circle_hull",
+            "finite centres and radii > 0 in mm",
+            f"centres {centres.tolist()}, radii {radii.tolist()}",
+        )
     labels = [str(k) for k in range(len(centres))] if names is None else list(names)
     if len(labels) != len(centres):
         raise GeometryError("circle_hull.names", f"{len(centres)} names", f"{len(labels)}")
@@ -177,8 +186,17 @@ def circle_hull(
     names_kept = [labels[k] for k in keep]
 
     if len(c) == 1:
-        return PlateProfile((ProfileArc(names_kept[0], (float(c[0, 0]), float(c[0, 1])),
-                                        float(r[0]), -0.5 * math.pi, _TWO_PI),))
+        return PlateProfile(
+            (
+                ProfileArc(
+                    names_kept[0],
+                    (float(c[0, 0]), float(c[0, 1])),
+                    float(r[0]),
+                    -0.5 * math.pi,
+                    _TWO_PI,
+                ),
+            )
+        )
 
     # start on the circle with the lowest point (ties: the leftmost), heading +u
     low = c[:, 1] - r
@@ -198,8 +216,9 @@ def circle_hull(
         least = min(cand[0] for cand in candidates)
         # the first circle the turning line touches; on a tie the farther one, so that
         # circles touching the same line in between are passed over
-        best = max((cand for cand in candidates if cand[0] <= least + 1e-12),
-                   key=lambda cand: cand[1])
+        best = max(
+            (cand for cand in candidates if cand[0] <= least + 1e-12), key=lambda cand: cand[1]
+        )
         _, _, nxt, normal = best
         edge = (current, nxt, normal)
         if edges and edges[0][0] == current and edges[0][1] == nxt:
@@ -216,14 +235,19 @@ def circle_hull(
         sweep = (_angle(normal_out) - start_rad) % _TWO_PI
         if sweep > _TWO_PI - 1e-12:
             sweep = 0.0
-        arcs.append(ProfileArc(names_kept[i], (float(c[i, 0]), float(c[i, 1])), float(r[i]),
-                               start_rad, sweep))
+        arcs.append(
+            ProfileArc(
+                names_kept[i], (float(c[i, 0]), float(c[i, 1])), float(r[i]), start_rad, sweep
+            )
+        )
     return PlateProfile(tuple(arcs))
 
 
 def plate_profile(outline: PlateOutline) -> PlateProfile:
     """The exact outer profile of a plate: the hull of its boss circles (radius = hole
     radius + edge margin), arcs labelled with the hole names."""
-    return circle_hull([h.centre_uv for h in outline.holes],
-                       [h.boss_radius_mm for h in outline.holes],
-                       [h.name for h in outline.holes])
+    return circle_hull(
+        [h.centre_uv for h in outline.holes],
+        [h.boss_radius_mm for h in outline.holes],
+        [h.name for h in outline.holes],
+    )

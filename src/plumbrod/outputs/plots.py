@@ -63,11 +63,19 @@ def plot_ride_height(findings: Findings, ax: Axes) -> list[Any]:
         scale = np.max(np.abs(x)) or 1.0
         for element, rh in analysis.figures[sweep].ride_height.items():
             mid = len(x) // 2
-            line = ax.plot(x / scale, rh.height_mm - rh.height_mm[mid],
-                           label=f"{element}, {sweep} (±{scale:g} {unit})")
+            line = ax.plot(
+                x / scale,
+                rh.height_mm - rh.height_mm[mid],
+                label=f"{element}, {sweep} (±{scale:g} {unit})",
+            )
             drawn += line
-            drawn += ax.plot(x / scale, rh.bolted_height_mm - rh.bolted_height_mm[mid],
-                             color=line[0].get_color(), linestyle=":", linewidth=1.0)
+            drawn += ax.plot(
+                x / scale,
+                rh.bolted_height_mm - rh.bolted_height_mm[mid],
+                color=line[0].get_color(),
+                linestyle=":",
+                linewidth=1.0,
+            )
     ax.set_xlabel("body motion, fraction of its sweep range")
     ax.set_ylabel("ride-height change, mm")
     ax.set_title("Element ride height (dotted: bolted to the chassis)")
@@ -116,8 +124,9 @@ def plot_transmission(findings: Findings, ax: Axes) -> list[Any]:
     if fig.transmission_labels:
         ax.legend(fontsize="x-small")
     else:
-        ax.text(0.5, 0.5, "no rod ends on rockers or wishbones", ha="center",
-                transform=ax.transAxes)
+        ax.text(
+            0.5, 0.5, "no rod ends on rockers or wishbones", ha="center", transform=ax.transAxes
+        )
     return drawn
 
 
@@ -127,8 +136,7 @@ def plot_forces(findings: Findings, ax: Axes, case: int) -> list[Any]:
     drawn: list[Any] = []
     st = analysis.statics.get("travel")
     if st is None:
-        ax.text(0.5, 0.5, "no load case or no travel sweep", ha="center",
-                transform=ax.transAxes)
+        ax.text(0.5, 0.5, "no load case or no travel sweep", ha="center", transform=ax.transAxes)
         return drawn
     travel = analysis.sweeps["travel"].spec.values["travel_mm"]
     required = analysis.design.limits.buckling_reserve
@@ -144,15 +152,18 @@ def plot_forces(findings: Findings, ax: Axes, case: int) -> list[Any]:
         reserve = findings.reserves[rod.name]
         limit = -reserve.critical_load_N / required
         if reserve.compression is not None and limit > bottom:
-            drawn.append(ax.axhline(limit, color=line[0].get_color(), linestyle=":",
-                                    linewidth=1.2))
+            drawn.append(ax.axhline(limit, color=line[0].get_color(), linestyle=":", linewidth=1.2))
             shown += 1
     ax.axhline(0.0, color="0.6", linewidth=0.8)
     ax.set_ylim(bottom, high + 0.15 * span)
-    note = (f"dotted: -P_cr/{required:g} of the rods near it" if shown else
-            f"every compression rod's -P_cr/{required:g} lies below this range")
-    _label_travel_axes(ax, "rod force, N (+ tension)",
-                       f"Rod forces, load case '{st.cases[case]}' ({note})")
+    note = (
+        f"dotted: -P_cr/{required:g} of the rods near it"
+        if shown
+        else f"every compression rod's -P_cr/{required:g} lies below this range"
+    )
+    _label_travel_axes(
+        ax, "rod force, N (+ tension)", f"Rod forces, load case '{st.cases[case]}' ({note})"
+    )
     ax.legend(fontsize="x-small", ncol=2)
     return drawn
 
@@ -176,8 +187,12 @@ def plot_findings(findings: Findings, folder: str | Path, stem: str) -> list[Pat
     plot_line_of_action(findings, axes[1, 0])
     plot_transmission(findings, axes[1, 1])
     figure.suptitle(f"{name}: kinematics")
-    written.append(write_with(folder / f"{stem}-kinematics.png",
-                              lambda tmp: figure.savefig(tmp, format="png", dpi=110)))
+    written.append(
+        write_with(
+            folder / f"{stem}-kinematics.png",
+            lambda tmp: figure.savefig(tmp, format="png", dpi=110),
+        )
+    )
 
     cases = len(findings.analysis.loads.cases) if findings.analysis.loads else 1
     figure = Figure(figsize=(12, 4.5 * cases), layout="constrained")
@@ -186,6 +201,9 @@ def plot_findings(findings: Findings, folder: str | Path, stem: str) -> list[Pat
     for k, ax in enumerate(axes):
         plot_forces(findings, ax, k)
     figure.suptitle(f"{name}: forces")
-    written.append(write_with(folder / f"{stem}-forces.png",
-                              lambda tmp: figure.savefig(tmp, format="png", dpi=110)))
+    written.append(
+        write_with(
+            folder / f"{stem}-forces.png", lambda tmp: figure.savefig(tmp, format="png", dpi=110)
+        )
+    )
     return written

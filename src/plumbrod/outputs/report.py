@@ -81,28 +81,66 @@ def _rf_text(rf: float) -> str:
 
 
 def member_rows(findings: Findings) -> list[tuple[str, ...]]:
-    rows = [("rod", "section mm", "material", "length mm", "mass g", "min force N",
-             "max force N", "P_cr N", "regime", "RF buckling", "RF tension")]
+    rows = [
+        (
+            "rod",
+            "section mm",
+            "material",
+            "length mm",
+            "mass g",
+            "min force N",
+            "max force N",
+            "P_cr N",
+            "regime",
+            "RF buckling",
+            "RF tension",
+        )
+    ]
     for name, reserve in findings.reserves.items():
         member = findings.analysis.members[name]
         low = reserve.compression.force_N if reserve.compression else 0.0
         high = reserve.tension.force_N if reserve.tension else 0.0
-        rows.append((name, _section_text(member), member.material.id,
-                     f"{member.length_mm:.1f}", f"{member.mass_kg * 1000:.0f}",
-                     f"{low:+.1f}", f"{high:+.1f}", f"{reserve.critical_load_N:.0f}",
-                     reserve.regime, _rf_text(reserve.buckling_rf), _rf_text(reserve.tension_rf)))
+        rows.append(
+            (
+                name,
+                _section_text(member),
+                member.material.id,
+                f"{member.length_mm:.1f}",
+                f"{member.mass_kg * 1000:.0f}",
+                f"{low:+.1f}",
+                f"{high:+.1f}",
+                f"{reserve.critical_load_N:.0f}",
+                reserve.regime,
+                _rf_text(reserve.buckling_rf),
+                _rf_text(reserve.tension_rf),
+            )
+        )
     return rows
 
 
 def mass_rows(findings: Findings) -> list[tuple[str, ...]]:
-    rows = [("corner", "static share kg", "kinetic single-wheel kg", "kinetic heave kg",
-             "existing kg")]
+    rows = [
+        ("corner", "static share kg", "kinetic single-wheel kg", "kinetic heave kg", "existing kg")
+    ]
     for c in findings.mass.corners:
-        existing = "-" if c.existing_kg is None else (
-            f"{c.existing_kg:g} (+{c.static_share_kg / c.existing_kg:.0%} static)"
-            if c.existing_kg > 0 else f"{c.existing_kg:g}")
-        rows.append((c.corner, f"{c.static_share_kg:.2f}", f"{c.kinetic_single_kg:.2f}",
-                     f"{c.kinetic_heave_kg:.2f}", existing))
+        existing = (
+            "-"
+            if c.existing_kg is None
+            else (
+                f"{c.existing_kg:g} (+{c.static_share_kg / c.existing_kg:.0%} static)"
+                if c.existing_kg > 0
+                else f"{c.existing_kg:g}"
+            )
+        )
+        rows.append(
+            (
+                c.corner,
+                f"{c.static_share_kg:.2f}",
+                f"{c.kinetic_single_kg:.2f}",
+                f"{c.kinetic_heave_kg:.2f}",
+                existing,
+            )
+        )
     return rows
 
 
@@ -115,8 +153,10 @@ def as_text(findings: Findings) -> str:
     if d.plane:
         lines.append(f"planar design in the {d.plane} view")
     if m.exact:
-        lines.append(f"location: exact; Grübler–Kutzbach {m.count} with {m.drivers} wheel "
-                     f"driver(s), Jacobian rank {m.rank} of {m.n_coords}")
+        lines.append(
+            f"location: exact; Grübler–Kutzbach {m.count} with {m.drivers} wheel "
+            f"driver(s), Jacobian rank {m.rank} of {m.n_coords}"
+        )
     else:
         lines.append(f"location: over-constrained; {'; '.join(m.redundant)}")
     for route in analysis.routes.routes:
@@ -136,11 +176,15 @@ def as_text(findings: Findings) -> str:
         for note in analysis.loads.left_out:
             lines.append(f"planar design: {note}")
     else:
-        lines.append("load cases: none (give [design] top_speed_kmh and element aero data, "
-                     "or [load_cases]); forces are not checked")
+        lines.append(
+            "load cases: none (give [design] top_speed_kmh and element aero data, "
+            "or [load_cases]); forces are not checked"
+        )
     if any(st.elastic for st in analysis.statics.values()):
-        lines.append("over-constrained: forces come from an elastic solution with rod "
-                     "stiffness EA/L, so they depend on the members' stiffness")
+        lines.append(
+            "over-constrained: forces come from an elastic solution with rod "
+            "stiffness EA/L, so they depend on the members' stiffness"
+        )
     lines.append("")
     rows = [("check", "status", "value", "limit", "worst at")]
     for c in checks:
@@ -155,12 +199,18 @@ def as_text(findings: Findings) -> str:
         lines += ["", "members (worst over every sweep and load case; force + tension)"]
         lines += _table(member_rows(findings))
     if findings.clearance.pairs:
-        lines += ["", f"closest pairs over {findings.clearance.poses} poses (mm; negative = "
-                  "interference depth)"]
+        lines += [
+            "",
+            f"closest pairs over {findings.clearance.poses} poses (mm; negative = "
+            "interference depth)",
+        ]
         rows = [("solid", "against", "distance", "limit", "where")]
         for p in findings.clearance.pairs[:CLOSEST_SHOWN]:
-            where = (f"sweep '{p.sweep}' at {analysis.sweeps[p.sweep].spec.describe(p.pose)}"
-                     if p.exact else "every pose (bound)")
+            where = (
+                f"sweep '{p.sweep}' at {analysis.sweeps[p.sweep].spec.describe(p.pose)}"
+                if p.exact
+                else "every pose (bound)"
+            )
             dist = f"{p.distance_mm:.1f}" if p.exact else f"> {p.distance_mm:.0f}"
             rows.append((p.a, p.b, dist, f"{p.limit_mm:g}", where))
         lines += _table(rows)
@@ -168,12 +218,19 @@ def as_text(findings: Findings) -> str:
     lines += ["", f"route mass {findings.mass.total_kg:.2f} kg; added unsprung mass per corner"]
     lines += _table(mass_rows(findings))
     if findings.mass.estimated_inertia:
-        lines.append("element inertia estimated as a uniform block (give inertia_kg_m2): "
-                     + ", ".join(findings.mass.estimated_inertia))
+        lines.append(
+            "element inertia estimated as a uniform block (give inertia_kg_m2): "
+            + ", ".join(findings.mass.estimated_inertia)
+        )
     v = verdict(checks)
     counts = {s: sum(c.status == s for c in checks) for s in ("pass", "warn", "fail")}
-    lines += ["", f"verdict: {v.upper()} ({counts['pass']} pass, {counts['warn']} warn, "
-              f"{counts['fail']} fail)", "", CAUTION]
+    lines += [
+        "",
+        f"verdict: {v.upper()} ({counts['pass']} pass, {counts['warn']} warn, "
+        f"{counts['fail']} fail)",
+        "",
+        CAUTION,
+    ]
     return "\n".join(lines) + "\n"
 
 
@@ -191,17 +248,21 @@ def sweep_json(analysis: Analysis) -> dict[str, object]:
         entry["line_of_action_deg"] = {k: _series(v) for k, v in fig.line_of_action_deg.items()}
         entry["transmission_angle_deg"] = {
             f"{rod}@{body}": _series(fig.transmission_deg[:, j])
-            for j, (rod, body) in enumerate(fig.transmission_labels)}
+            for j, (rod, body) in enumerate(fig.transmission_labels)
+        }
         if fig.ride_height:
             entry["ride_height_mm"] = {e: _series(r.height_mm) for e, r in fig.ride_height.items()}
-            entry["ride_height_bolted_mm"] = {e: _series(r.bolted_height_mm)
-                                              for e, r in fig.ride_height.items()}
+            entry["ride_height_bolted_mm"] = {
+                e: _series(r.bolted_height_mm) for e, r in fig.ride_height.items()
+            }
             entry["sensitivity"] = {
                 e: {_sens_key(k): _series(v) for k, v in r.sensitivity.items()}
-                for e, r in fig.ride_height.items()}
+                for e, r in fig.ride_height.items()
+            }
             entry["sensitivity_bolted"] = {
                 e: {_sens_key(k): _series(v) for k, v in r.bolted_sensitivity.items()}
-                for e, r in fig.ride_height.items()}
+                for e, r in fig.ride_height.items()
+            }
         out[name] = entry
     return out
 
@@ -217,52 +278,93 @@ def as_json(findings: Findings, *, indent: int | None = 1) -> str:
     members = []
     for name, reserve in findings.reserves.items():
         member = analysis.members[name]
-        members.append({
-            "name": name, "material": member.material.id, "od_mm": member.section.od_mm,
-            "wall_mm": member.section.wall_mm, "length_mm": round(member.length_mm, 6),
-            "mass_kg": round(member.mass_kg, 6),
-            "stiffness_N_per_mm": round(member.stiffness_N_per_mm, 3),
-            "critical_load_N": round(reserve.critical_load_N, 3), "regime": reserve.regime,
-            "slenderness": round(reserve.slenderness, 4),
-            "min_force_N": None if reserve.compression is None else
-            round(reserve.compression.force_N, 4),
-            "max_force_N": None if reserve.tension is None else round(reserve.tension.force_N, 4),
-            "buckling_reserve": _finite(reserve.buckling_rf),
-            "tension_reserve": _finite(reserve.tension_rf)})
+        members.append(
+            {
+                "name": name,
+                "material": member.material.id,
+                "od_mm": member.section.od_mm,
+                "wall_mm": member.section.wall_mm,
+                "length_mm": round(member.length_mm, 6),
+                "mass_kg": round(member.mass_kg, 6),
+                "stiffness_N_per_mm": round(member.stiffness_N_per_mm, 3),
+                "critical_load_N": round(reserve.critical_load_N, 3),
+                "regime": reserve.regime,
+                "slenderness": round(reserve.slenderness, 4),
+                "min_force_N": None
+                if reserve.compression is None
+                else round(reserve.compression.force_N, 4),
+                "max_force_N": None
+                if reserve.tension is None
+                else round(reserve.tension.force_N, 4),
+                "buckling_reserve": _finite(reserve.buckling_rf),
+                "tension_reserve": _finite(reserve.tension_rf),
+            }
+        )
     doc = {
-        "design": {"name": d.name, "file": d.source, "plane": d.plane,
-                   "corners": [c.name for c in d.corners],
-                   "elements": [e.name for e in d.elements],
-                   "rods": [r.name for r in d.rods], "rockers": [r.name for r in d.rockers]},
+        "design": {
+            "name": d.name,
+            "file": d.source,
+            "plane": d.plane,
+            "corners": [c.name for c in d.corners],
+            "elements": [e.name for e in d.elements],
+            "rods": [r.name for r in d.rods],
+            "rockers": [r.name for r in d.rockers],
+        },
         "verdict": verdict(checks),
         "checks": [c.as_json() for c in checks],
         "location": location_summary(analysis),
-        "routes": [{"name": r.name, "element": r.element, "corner": r.corner,
-                    "bodies": list(r.bodies), "receiving_rods": list(r.receiving_rods),
-                    "delivering_rods": list(r.delivering_rods)} for r in analysis.routes.routes],
+        "routes": [
+            {
+                "name": r.name,
+                "element": r.element,
+                "corner": r.corner,
+                "bodies": list(r.bodies),
+                "receiving_rods": list(r.receiving_rods),
+                "delivering_rods": list(r.delivering_rods),
+            }
+            for r in analysis.routes.routes
+        ],
         "guides": list(analysis.routes.guides),
         "load_cases": list(analysis.loads.cases) if analysis.loads else [],
         "loads_left_out": list(analysis.loads.left_out) if analysis.loads else [],
         "members": members,
-        "mass": {"bodies_kg": {k: round(v, 6) for k, v in findings.mass.bodies_kg.items()},
-                 "corners": [{"corner": c.corner,
-                              "static_share_kg": round(c.static_share_kg, 6),
-                              "kinetic_single_wheel_kg": round(c.kinetic_single_kg, 6),
-                              "kinetic_heave_kg": round(c.kinetic_heave_kg, 6),
-                              "existing_kg": c.existing_kg} for c in findings.mass.corners],
-                 "estimated_inertia": list(findings.mass.estimated_inertia)},
+        "mass": {
+            "bodies_kg": {k: round(v, 6) for k, v in findings.mass.bodies_kg.items()},
+            "corners": [
+                {
+                    "corner": c.corner,
+                    "static_share_kg": round(c.static_share_kg, 6),
+                    "kinetic_single_wheel_kg": round(c.kinetic_single_kg, 6),
+                    "kinetic_heave_kg": round(c.kinetic_heave_kg, 6),
+                    "existing_kg": c.existing_kg,
+                }
+                for c in findings.mass.corners
+            ],
+            "estimated_inertia": list(findings.mass.estimated_inertia),
+        },
         "clearance": {
             "poses": findings.clearance.poses,
-            "pairs": [{"a": p.a, "b": p.b, "distance_mm": round(p.distance_mm, 6),
-                       "limit_mm": p.limit_mm, "exact": p.exact,
-                       "sweep": p.sweep if p.exact else None,
-                       "pose": p.pose if p.exact else None,
-                       "point_a_mm": [round(v, 6) for v in p.point_a] if p.exact else None,
-                       "point_b_mm": [round(v, 6) for v in p.point_b] if p.exact else None}
-                      for p in findings.clearance.pairs],
-            "not_checked": list(findings.clearance.skipped)},
-        "compliance": {"route_stiffness_N_per_mm": {
-            k: _finite(v) for k, v in findings.compliance.route_stiffness_N_per_mm.items()}},
+            "pairs": [
+                {
+                    "a": p.a,
+                    "b": p.b,
+                    "distance_mm": round(p.distance_mm, 6),
+                    "limit_mm": p.limit_mm,
+                    "exact": p.exact,
+                    "sweep": p.sweep if p.exact else None,
+                    "pose": p.pose if p.exact else None,
+                    "point_a_mm": [round(v, 6) for v in p.point_a] if p.exact else None,
+                    "point_b_mm": [round(v, 6) for v in p.point_b] if p.exact else None,
+                }
+                for p in findings.clearance.pairs
+            ],
+            "not_checked": list(findings.clearance.skipped),
+        },
+        "compliance": {
+            "route_stiffness_N_per_mm": {
+                k: _finite(v) for k, v in findings.compliance.route_stiffness_N_per_mm.items()
+            }
+        },
         "sweeps": sweep_json(analysis),
         "caution": CAUTION,
     }

@@ -59,8 +59,9 @@ def _columns_of_sweep(analysis: Analysis, name: str) -> dict[str, Array]:
                 for axis, label in enumerate("xyz"):
                     cols[f"{case}/{route}/upright_F{label}_N"] = f[:, axis]
                 size = np.linalg.norm(f, axis=-1)
-                cols[f"{case}/{route}/upright_angle_deg"] = np.degrees(np.arccos(
-                    np.clip(np.abs(f[:, 2]) / np.where(size > 0, size, 1.0), 0.0, 1.0)))
+                cols[f"{case}/{route}/upright_angle_deg"] = np.degrees(
+                    np.arccos(np.clip(np.abs(f[:, 2]) / np.where(size > 0, size, 1.0), 0.0, 1.0))
+                )
                 moment = st.upright_moment_Nm[route][:, k]
                 cols[f"{case}/{route}/upright_Mx_Nm"] = moment[:, 0]
                 cols[f"{case}/{route}/upright_My_Nm"] = moment[:, 1]
@@ -69,16 +70,19 @@ def _columns_of_sweep(analysis: Analysis, name: str) -> dict[str, Array]:
                 cols[f"{case}/{element}/leak_heave_N"] = leak[:, 0]
                 cols[f"{case}/{element}/leak_roll_Nm"] = leak[:, 1]
                 cols[f"{case}/{element}/leak_pitch_Nm"] = leak[:, 2]
-                cols[f"{case}/{element}/leak_heave_virtual_work_N"] = \
-                    st.leakage_virtual_work[:, k, e, 0]
+                cols[f"{case}/{element}/leak_heave_virtual_work_N"] = st.leakage_virtual_work[
+                    :, k, e, 0
+                ]
                 load = st.vertical_load_N[:, k, e]
                 cols[f"{case}/{element}/leak_fraction"] = np.divide(
-                    leak[:, 0], load, out=np.zeros(n), where=np.abs(load) > 1e-9)
+                    leak[:, 0], load, out=np.zeros(n), where=np.abs(load) > 1e-9
+                )
     return cols
 
 
-def pose_table(analysis: Analysis, sweeps: list[str] | None = None
-               ) -> tuple[list[str], list[list[object]]]:
+def pose_table(
+    analysis: Analysis, sweeps: list[str] | None = None
+) -> tuple[list[str], list[list[object]]]:
     """Columns and rows for the chosen sweeps (all by default), one row per pose."""
     names = sweeps or list(analysis.sweeps)
     per_sweep = {name: _columns_of_sweep(analysis, name) for name in names}
@@ -94,8 +98,9 @@ def pose_table(analysis: Analysis, sweeps: list[str] | None = None
             row: list[object] = [name, i]
             for key in columns[2:]:
                 value = cols.get(key)
-                row.append(None if value is None or np.isnan(value[i])
-                           else round(float(value[i]), 6))
+                row.append(
+                    None if value is None or np.isnan(value[i]) else round(float(value[i]), 6)
+                )
             rows.append(row)
     return columns, rows
 
@@ -112,7 +117,10 @@ def table_csv(columns: list[str], rows: list[list[object]]) -> str:
 
 def table_json(analysis: Analysis, columns: list[str], rows: list[list[object]]) -> str:
     """The table as JSON: design name and file, columns, rows (null where n/a)."""
-    doc = {"design": {"name": analysis.design.name, "file": analysis.design.source},
-           "load_cases": list(analysis.loads.cases) if analysis.loads else [],
-           "columns": columns, "rows": rows}
+    doc = {
+        "design": {"name": analysis.design.name, "file": analysis.design.source},
+        "load_cases": list(analysis.loads.cases) if analysis.loads else [],
+        "columns": columns,
+        "rows": rows,
+    }
     return json.dumps(doc, ensure_ascii=False) + "\n"

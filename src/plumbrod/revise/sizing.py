@@ -71,21 +71,35 @@ def choose_sections(
     analysis = findings.analysis
     limits = analysis.design.limits
     table = material_table(analysis.design)
-    catalogue = [c for c in catalogue_sections(system) if c.od_mm >= min_od_mm
-                 and (c.wall_mm is None or c.wall_mm >= min_wall_mm)]
+    catalogue = [
+        c
+        for c in catalogue_sections(system)
+        if c.od_mm >= min_od_mm and (c.wall_mm is None or c.wall_mm >= min_wall_mm)
+    ]
     choices: list[SizingChoice] = []
     groups: dict[str, list[str]] = {}
     for rod in analysis.design.rods:
         groups.setdefault(file_rod_name(rod.name, entries), []).append(rod.name)
     for entry, rods in groups.items():
         before = analysis.members[rods[0]]
-        compression = min((findings.reserves[r].compression.force_N
-                           for r in rods if findings.reserves[r].compression), default=0.0)
-        tension = max((findings.reserves[r].tension.force_N
-                       for r in rods if findings.reserves[r].tension), default=0.0)
+        compression = min(
+            (
+                findings.reserves[r].compression.force_N
+                for r in rods
+                if findings.reserves[r].compression
+            ),
+            default=0.0,
+        )
+        tension = max(
+            (findings.reserves[r].tension.force_N for r in rods if findings.reserves[r].tension),
+            default=0.0,
+        )
         allowed = [table[m] for m in (materials or [before.material.id])]
-        room = min((clearance_margin_mm(r) for r in rods), default=np.inf) \
-            if clearance_margin_mm else np.inf
+        room = (
+            min((clearance_margin_mm(r) for r in rods), default=np.inf)
+            if clearance_margin_mm
+            else np.inf
+        )
         best: tuple[float, float, Section, Material, float, float] | None = None
         for material in allowed:
             for section in catalogue:
@@ -93,9 +107,16 @@ def choose_sections(
                 if grow > room:
                     continue
                 area, inertia = section.area_mm2, section.second_moment_mm4
-                p_cr = float(critical_load_N(area, inertia, before.length_mm,
-                                             before.rod.end_fixity, material.modulus_MPa,
-                                             material.yield_MPa))
+                p_cr = float(
+                    critical_load_N(
+                        area,
+                        inertia,
+                        before.length_mm,
+                        before.rod.end_fixity,
+                        material.modulus_MPa,
+                        material.yield_MPa,
+                    )
+                )
                 rf_b = p_cr / abs(compression) if compression < 0 else np.inf
                 rf_t = material.yield_MPa * area / tension if tension > 0 else np.inf
                 if rf_b < limits.buckling_reserve or rf_t < limits.tension_reserve:
@@ -105,19 +126,36 @@ def choose_sections(
                 if best is None or key < (best[0], best[1]):
                     best = (mass, section.od_mm, section, material, rf_b, rf_t)
         if best is None:
-            choices.append(SizingChoice(entry, tuple(rods), before, None, None, np.nan,
-                                        np.nan, np.nan, "no catalogue section in the allowed "
-                                        "materials meets the reserves"
-                                        + ("" if room == np.inf else " and the clearance")))
+            choices.append(
+                SizingChoice(
+                    entry,
+                    tuple(rods),
+                    before,
+                    None,
+                    None,
+                    np.nan,
+                    np.nan,
+                    np.nan,
+                    "no catalogue section in the allowed "
+                    "materials meets the reserves"
+                    + ("" if room == np.inf else " and the clearance"),
+                )
+            )
             continue
         mass, _, section, material, rf_b, rf_t = best
-        choices.append(SizingChoice(entry, tuple(rods), before, section, material, mass, rf_b,
-                                    rf_t))
+        choices.append(
+            SizingChoice(entry, tuple(rods), before, section, material, mass, rf_b, rf_t)
+        )
     return choices
 
 
-def thinnest_wall_mm(member: Member, compression_N: float, tension_N: float,
-                     buckling_reserve: float, tension_reserve: float) -> float | None:
+def thinnest_wall_mm(
+    member: Member,
+    compression_N: float,
+    tension_N: float,
+    buckling_reserve: float,
+    tension_reserve: float,
+) -> float | None:
     """The thinnest wall (mm) at the member's own OD and material that meets both reserves.
 
     Both reserve factors grow with the wall at a fixed OD, so each limit has one root,
@@ -156,8 +194,11 @@ def thinnest_wall_mm(member: Member, compression_N: float, tension_N: float,
 
 _HEADER = re.compile(r'^\s*\[\s*rods\s*\.\s*(?P<name>"[^"]+"|[A-Za-z0-9_\-]+)\s*\]\s*(#.*)?$')
 _ANY_HEADER = re.compile(r"^\s*\[")
-_KEY = re.compile(r"^(?P<indent>\s*)(?P<key>od_mm|wall_mm|material|solid)(?P<eq>\s*=\s*)"
-                  r"(?P<value>\"[^\"]*\"|[^#\s]+)(?P<rest>.*)$", re.DOTALL)
+_KEY = re.compile(
+    r"^(?P<indent>\s*)(?P<key>od_mm|wall_mm|material|solid)(?P<eq>\s*=\s*)"
+    r"(?P<value>\"[^\"]*\"|[^#\s]+)(?P<rest>.*)$",
+    re.DOTALL,
+)
 
 
 def apply_sizes(text: str, choices: Sequence[SizingChoice]) -> str:
@@ -171,14 +212,22 @@ def apply_sizes(text: str, choices: Sequence[SizingChoice]) -> str:
     for choice in choices:
         if choice.section is None or choice.material is None:
             continue
-        start = next((i for i, line in enumerate(lines)
-                      if (m := _HEADER.match(line)) and m["name"].strip('"') == choice.entry),
-                     None)
+        start = next(
+            (
+                i
+                for i, line in enumerate(lines)
+                if (m := _HEADER.match(line)) and m["name"].strip('"') == choice.entry
+            ),
+            None,
+        )
         if start is None:
-            raise ValueError(f"rods.{choice.entry}: not written as a [rods.{choice.entry}] "
-                             "table, so it cannot be edited in place")
-        end = next((i for i in range(start + 1, len(lines)) if _ANY_HEADER.match(lines[i])),
-                   len(lines))
+            raise ValueError(
+                f"rods.{choice.entry}: not written as a [rods.{choice.entry}] "
+                "table, so it cannot be edited in place"
+            )
+        end = next(
+            (i for i in range(start + 1, len(lines)) if _ANY_HEADER.match(lines[i])), len(lines)
+        )
         s = choice.section
         wanted = {"od_mm": f"{s.od_mm:g}", "material": f'"{choice.material.id}"'}
         if s.wall_mm is not None:
@@ -187,7 +236,7 @@ def apply_sizes(text: str, choices: Sequence[SizingChoice]) -> str:
             wanted["solid"] = "true"
         body: list[str] = []
         anchor = 0
-        for line in lines[start + 1:end]:
+        for line in lines[start + 1 : end]:
             m = _KEY.match(line)
             if m is None:
                 body.append(line)
@@ -201,5 +250,5 @@ def apply_sizes(text: str, choices: Sequence[SizingChoice]) -> str:
         for key, value in wanted.items():  # keys the table did not have yet
             body.insert(anchor, f"{key} = {value}\n")
             anchor += 1
-        lines[start + 1:end] = body
+        lines[start + 1 : end] = body
     return "".join(lines)

@@ -53,9 +53,17 @@ class CheckResult:
             rule = "range"
         else:
             rule = "min" if self.at_least else "max"
-        return {"id": self.id, "title": self.title, "status": self.status, "value": value,
-                "limit": limit, "limit_type": rule, "unit": self.unit, "where": self.where,
-                "detail": self.detail}
+        return {
+            "id": self.id,
+            "title": self.title,
+            "status": self.status,
+            "value": value,
+            "limit": limit,
+            "limit_type": rule,
+            "unit": self.unit,
+            "where": self.where,
+            "detail": self.detail,
+        }
 
 
 def status_of(used: float) -> str:
@@ -69,12 +77,19 @@ def _pose(analysis: Analysis, sweep: str, index: int) -> str:
     return f"sweep '{sweep}' at {analysis.sweeps[sweep].spec.describe(index)}"
 
 
-def _no_loads(check_id: str, title: str, limit: float | tuple[float, float] | None,
-              unit: str) -> CheckResult:
-    return CheckResult(check_id, title, "warn", None, limit, unit,
-                       "not computed: no load case",
-                       "give [design] top_speed_kmh with [elements.<name>.aero], or "
-                       "[load_cases]")
+def _no_loads(
+    check_id: str, title: str, limit: float | tuple[float, float] | None, unit: str
+) -> CheckResult:
+    return CheckResult(
+        check_id,
+        title,
+        "warn",
+        None,
+        limit,
+        unit,
+        "not computed: no load case",
+        "give [design] top_speed_kmh with [elements.<name>.aero], or [load_cases]",
+    )
 
 
 def check_route_ratio(analysis: Analysis) -> CheckResult:
@@ -82,9 +97,16 @@ def check_route_ratio(analysis: Analysis) -> CheckResult:
     title = "Route ratio through the wheel travel"
     travel = analysis.figures.get("travel")
     if travel is None or not travel.route_ratio:
-        return CheckResult("route-ratio", title, "warn", None, (lo, hi), "",
-                           "not computed: the travel sweep is off",
-                           "enable [sweeps.travel] to check the route ratio")
+        return CheckResult(
+            "route-ratio",
+            title,
+            "warn",
+            None,
+            (lo, hi),
+            "",
+            "not computed: the travel sweep is off",
+            "enable [sweeps.travel] to check the route ratio",
+        )
     centre, half = (lo + hi) / 2.0, (hi - lo) / 2.0
     worst = (-1.0, "", 0, 0.0)
     lines = []
@@ -95,8 +117,16 @@ def check_route_ratio(analysis: Analysis) -> CheckResult:
         if used[i] > worst[0]:
             worst = (float(used[i]), name, i, float(ratio[i]))
     used, name, i, value = worst
-    return CheckResult("route-ratio", title, status_of(used), value, (lo, hi), "mm/mm",
-                       f"route '{name}' in {_pose(analysis, 'travel', i)}", "; ".join(lines))
+    return CheckResult(
+        "route-ratio",
+        title,
+        status_of(used),
+        value,
+        (lo, hi),
+        "mm/mm",
+        f"route '{name}' in {_pose(analysis, 'travel', i)}",
+        "; ".join(lines),
+    )
 
 
 def check_line_of_action(analysis: Analysis) -> CheckResult:
@@ -106,8 +136,7 @@ def check_line_of_action(analysis: Analysis) -> CheckResult:
         for rod, angle in fig.line_of_action_deg.items():
             i = int(np.argmax(angle))
             if angle[i] > worst[0]:
-                worst = (float(angle[i]), f"rod '{rod}' ({_rod_role(analysis, rod)})", sweep,
-                         i, "")
+                worst = (float(angle[i]), f"rod '{rod}' ({_rod_role(analysis, rod)})", sweep, i, "")
     resultant = -1.0
     for sweep, st in analysis.statics.items():
         for corner, force in st.corner_force_N.items():
@@ -117,18 +146,34 @@ def check_line_of_action(analysis: Analysis) -> CheckResult:
             b, k = np.unravel_index(int(np.argmax(angle)), angle.shape)
             resultant = max(resultant, float(angle[b, k]))
             if angle[b, k] > worst[0]:
-                worst = (float(angle[b, k]), f"resultant force of the routes on corner "
-                         f"'{corner}'",
-                         sweep, int(b), f", load case '{st.cases[k]}'")
+                worst = (
+                    float(angle[b, k]),
+                    f"resultant force of the routes on corner '{corner}'",
+                    sweep,
+                    int(b),
+                    f", load case '{st.cases[k]}'",
+                )
     title = "Line of action from vertical (route rods and the force on each upright)"
     if worst[0] < 0:
-        return CheckResult("line-of-action", title, "warn", None, limit, "deg",
-                           "not computed: no sweep ran", "")
+        return CheckResult(
+            "line-of-action", title, "warn", None, limit, "deg", "not computed: no sweep ran", ""
+        )
     value, what, sweep, i, case = worst
-    detail = (f"largest angle of a resultant force on a corner {resultant:.2f} deg"
-              if resultant >= 0 else "")
-    return CheckResult("line-of-action", title, status_of(value / limit), value, limit, "deg",
-                       f"{what} in {_pose(analysis, sweep, i)}{case}", detail)
+    detail = (
+        f"largest angle of a resultant force on a corner {resultant:.2f} deg"
+        if resultant >= 0
+        else ""
+    )
+    return CheckResult(
+        "line-of-action",
+        title,
+        status_of(value / limit),
+        value,
+        limit,
+        "deg",
+        f"{what} in {_pose(analysis, sweep, i)}{case}",
+        detail,
+    )
 
 
 def _rod_role(analysis: Analysis, rod: str) -> str:
@@ -153,15 +198,29 @@ def check_transmission(analysis: Analysis) -> CheckResult:
         used = np.maximum((90.0 - mu) / (90.0 - lo), (mu - 90.0) / (hi - 90.0))
         b, j = np.unravel_index(int(np.argmax(used)), used.shape)
         if used[b, j] > worst[0]:
-            worst = (float(used[b, j]), float(mu[b, j]), fig.transmission_labels[j], sweep,
-                     int(b))
+            worst = (float(used[b, j]), float(mu[b, j]), fig.transmission_labels[j], sweep, int(b))
     if worst[3] == "":
-        return CheckResult("transmission-angle", title, "pass", None, (lo, hi), "deg",
-                           "no rod ends on hinged bodies", "")
+        return CheckResult(
+            "transmission-angle",
+            title,
+            "pass",
+            None,
+            (lo, hi),
+            "deg",
+            "no rod ends on hinged bodies",
+            "",
+        )
     used, value, (rod, body), sweep, i = worst
-    return CheckResult("transmission-angle", title, status_of(used), value, (lo, hi), "deg",
-                       f"rod '{rod}' at '{body}' in {_pose(analysis, sweep, i)}",
-                       "near 0° or 180° the rod locks the rocker")
+    return CheckResult(
+        "transmission-angle",
+        title,
+        status_of(used),
+        value,
+        (lo, hi),
+        "deg",
+        f"rod '{rod}' at '{body}' in {_pose(analysis, sweep, i)}",
+        "near 0° or 180° the rod locks the rocker",
+    )
 
 
 def check_ride_height(analysis: Analysis) -> CheckResult:
@@ -181,32 +240,54 @@ def check_ride_height(analysis: Analysis) -> CheckResult:
             if abs(s[i]) > worst[0]:
                 worst = (float(abs(s[i])), element, sweep, i, float(s[i]))
     worse: list[str] = []
-    for sweep, key, unit in (("heave", "heave", "mm/mm"), ("roll", "roll", "mm/deg"),
-                             ("pitch", "pitch", "mm/deg")):
+    for sweep, key, unit in (
+        ("heave", "heave", "mm/mm"),
+        ("roll", "roll", "mm/deg"),
+        ("pitch", "pitch", "mm/deg"),
+    ):
         fig = analysis.figures.get(sweep)
         if fig is None:
             continue
         for element, rh in fig.ride_height.items():
             s = rh.sensitivity[key]
             b = rh.bolted_sensitivity[key]
-            details.append(f"{element} {key}: {s.min():+.3f} to {s.max():+.3f} {unit} "
-                           f"(bolted {b.min():+.3f} to {b.max():+.3f})")
+            details.append(
+                f"{element} {key}: {s.min():+.3f} to {s.max():+.3f} {unit} "
+                f"(bolted {b.min():+.3f} to {b.max():+.3f})"
+            )
             route, bolted = float(np.abs(s).max()), float(np.abs(b).max())
-            if key != "heave" and route > max(WORSE_THAN_BOLTED * bolted,
-                                              bolted + WORSE_FLOOR_MM_PER_DEG):
-                worse.append(f"{element} moves more in {key} ({route:.2f} {unit}) than if it "
-                             f"were bolted to the chassis ({bolted:.2f} {unit})")
+            if key != "heave" and route > max(
+                WORSE_THAN_BOLTED * bolted, bolted + WORSE_FLOOR_MM_PER_DEG
+            ):
+                worse.append(
+                    f"{element} moves more in {key} ({route:.2f} {unit}) than if it "
+                    f"were bolted to the chassis ({bolted:.2f} {unit})"
+                )
     if worst[0] < 0:
-        return CheckResult("ride-height-sensitivity", title, "warn", None, limit, "mm/mm",
-                           "not computed: the heave sweep is off",
-                           "enable [sweeps.heave] to check it")
+        return CheckResult(
+            "ride-height-sensitivity",
+            title,
+            "warn",
+            None,
+            limit,
+            "mm/mm",
+            "not computed: the heave sweep is off",
+            "enable [sweeps.heave] to check it",
+        )
     used, element, sweep, i, value = worst
     status = status_of(used / limit)
     if worse and status == "pass":
         status = "warn"
-    return CheckResult("ride-height-sensitivity", title, status, value, limit,
-                       "mm/mm", f"element '{element}' in {_pose(analysis, sweep, i)}",
-                       "; ".join([*worse, *details]))
+    return CheckResult(
+        "ride-height-sensitivity",
+        title,
+        status,
+        value,
+        limit,
+        "mm/mm",
+        f"element '{element}' in {_pose(analysis, sweep, i)}",
+        "; ".join([*worse, *details]),
+    )
 
 
 def check_member_force(analysis: Analysis) -> CheckResult:
@@ -232,13 +313,21 @@ def check_member_force(analysis: Analysis) -> CheckResult:
             used = np.abs(forces[..., j]) / rod.rod_end_rating_N
             b, k = np.unravel_index(int(np.argmax(used)), used.shape)
             if used[b, k] > worst_rated[0]:
-                worst_rated = (float(used[b, k]), rod.name, sweep, int(b), int(k),
-                               rod.rod_end_rating_N)
+                worst_rated = (
+                    float(used[b, k]),
+                    rod.name,
+                    sweep,
+                    int(b),
+                    int(k),
+                    rod.rod_end_rating_N,
+                )
     cases = next(iter(analysis.statics.values())).cases
 
     def at(entry: tuple[float, str, str, int, int]) -> str:
-        return (f"rod '{entry[1]}' in {_pose(analysis, entry[2], entry[3])}, "
-                f"load case '{cases[entry[4]]}'")
+        return (
+            f"rod '{entry[1]}' in {_pose(analysis, entry[2], entry[3])}, "
+            f"load case '{cases[entry[4]]}'"
+        )
 
     detail = []
     if worst_t[1]:
@@ -248,15 +337,30 @@ def check_member_force(analysis: Analysis) -> CheckResult:
     largest = worst_t if abs(worst_t[0]) >= abs(worst_c[0]) else worst_c
     if worst_rated[0] < 0:
         detail.append("no rod gives rod_end_rating_N: only the magnitudes are reported")
-        return CheckResult("member-force", title, "pass", largest[0], None, "N",
-                           at(largest) if largest[1] else "no force", "; ".join(detail))
+        return CheckResult(
+            "member-force",
+            title,
+            "pass",
+            largest[0],
+            None,
+            "N",
+            at(largest) if largest[1] else "no force",
+            "; ".join(detail),
+        )
     used, rod, sweep, b, k, rating = worst_rated
     j = names.index(rod)
     force = float(analysis.statics[sweep].rod_force_N[b, k, index[j]])
-    detail.append(f"highest use of a rod-end rating {used:.0%} (rod '{rod}', rated "
-                  f"{rating:g} N)")
-    return CheckResult("member-force", title, status_of(used), force, rating, "N",
-                       at((force, rod, sweep, b, k)), "; ".join(detail))
+    detail.append(f"highest use of a rod-end rating {used:.0%} (rod '{rod}', rated {rating:g} N)")
+    return CheckResult(
+        "member-force",
+        title,
+        status_of(used),
+        force,
+        rating,
+        "N",
+        at((force, rod, sweep, b, k)),
+        "; ".join(detail),
+    )
 
 
 LEAKAGE_AGREEMENT = 0.005
@@ -279,37 +383,64 @@ def check_sprung_leakage(analysis: Analysis) -> CheckResult:
         fraction = np.where(np.isnan(fraction), 0.0, fraction)
         b, k, e = np.unravel_index(int(np.argmax(fraction)), fraction.shape)
         if fraction[b, k, e] > worst[0]:
-            worst = (float(fraction[b, k, e]), st.elements[e], sweep, int(b), int(k),
-                     float(st.leakage[b, k, e, 0]))
+            worst = (
+                float(fraction[b, k, e]),
+                st.elements[e],
+                sweep,
+                int(b),
+                int(k),
+                float(st.leakage[b, k, e, 0]),
+            )
         scale = np.maximum(np.abs(load), 1e-9)[..., None]
         lever = analysis.link.characteristic_length() / 1000.0
         diff = np.abs(st.leakage - st.leakage_virtual_work) / scale
         diff[..., 1:] /= lever
         gap = max(gap, float(diff.max()))
-        roll = [min(roll[0], float(st.leakage[..., 1].min())),
-                max(roll[1], float(st.leakage[..., 1].max()))]
-        pitch = [min(pitch[0], float(st.leakage[..., 2].min())),
-                 max(pitch[1], float(st.leakage[..., 2].max()))]
+        roll = [
+            min(roll[0], float(st.leakage[..., 1].min())),
+            max(roll[1], float(st.leakage[..., 1].max())),
+        ]
+        pitch = [
+            min(pitch[0], float(st.leakage[..., 2].min())),
+            max(pitch[1], float(st.leakage[..., 2].max())),
+        ]
     value, element, sweep, b, k, heave = worst
     st = analysis.statics[sweep]
     status = status_of(value / limit)
-    agree = (f"direct and virtual-work figures agree within {gap:.1e} of the load"
-             if gap <= LEAKAGE_AGREEMENT else
-             f"FLAG: direct and virtual-work figures differ by {gap:.2%} of the load")
+    agree = (
+        f"direct and virtual-work figures agree within {gap:.1e} of the load"
+        if gap <= LEAKAGE_AGREEMENT
+        else f"FLAG: direct and virtual-work figures differ by {gap:.2%} of the load"
+    )
     if gap > LEAKAGE_AGREEMENT and status == "pass":
         status = "warn"
-    detail = (f"heave force {heave:+.1f} N at the worst pose; roll moment {roll[0]:+.1f} to "
-              f"{roll[1]:+.1f} N·m, pitch moment {pitch[0]:+.1f} to {pitch[1]:+.1f} N·m about "
-              f"ground axes through each element's axle centre on the ground; {agree}")
+    detail = (
+        f"heave force {heave:+.1f} N at the worst pose; roll moment {roll[0]:+.1f} to "
+        f"{roll[1]:+.1f} N·m, pitch moment {pitch[0]:+.1f} to {pitch[1]:+.1f} N·m about "
+        f"ground axes through each element's axle centre on the ground; {agree}"
+    )
     if st.elastic:
         detail += "; over-constrained: forces from the elastic solution (they depend on EA/L)"
-    return CheckResult("sprung-leakage", title, status, value, limit, "",
-                       f"element '{element}' in {_pose(analysis, sweep, b)}, load case "
-                       f"'{st.cases[k]}'", detail)
+    return CheckResult(
+        "sprung-leakage",
+        title,
+        status,
+        value,
+        limit,
+        "",
+        f"element '{element}' in {_pose(analysis, sweep, b)}, load case '{st.cases[k]}'",
+        detail,
+    )
 
 
-def _reserve_check(analysis: Analysis, check_id: str, title: str, required: float,
-                   reserves: dict[str, RodReserve], kind: str) -> CheckResult:
+def _reserve_check(
+    analysis: Analysis,
+    check_id: str,
+    title: str,
+    required: float,
+    reserves: dict[str, RodReserve],
+    kind: str,
+) -> CheckResult:
     if not analysis.statics:
         return replace(_no_loads(check_id, title, required, ""), at_least=True)
     worst: tuple[float, RodReserve | None] = (np.inf, None)
@@ -323,28 +454,44 @@ def _reserve_check(analysis: Analysis, check_id: str, title: str, required: floa
         return CheckResult(check_id, title, "pass", None, required, "", none, "", True)
     force = reserve.compression if kind == "buckling" else reserve.tension
     assert force is not None
-    where = (f"rod '{reserve.name}' at {force.force_N:+.1f} N in "
-             f"{_pose(analysis, force.sweep, force.pose)}, load case '{force.case}'")
+    where = (
+        f"rod '{reserve.name}' at {force.force_N:+.1f} N in "
+        f"{_pose(analysis, force.sweep, force.pose)}, load case '{force.case}'"
+    )
     margin = rf / required - 1.0
     if kind == "buckling":
-        detail = (f"P_cr {reserve.critical_load_N:.0f} N ({reserve.regime}, KL/r "
-                  f"{reserve.slenderness:.1f}, transition {reserve.transition_slenderness:.1f});"
-                  f" margin of safety {margin:+.2f}")
+        detail = (
+            f"P_cr {reserve.critical_load_N:.0f} N ({reserve.regime}, KL/r "
+            f"{reserve.slenderness:.1f}, transition {reserve.transition_slenderness:.1f});"
+            f" margin of safety {margin:+.2f}"
+        )
     else:
         detail = f"S_y·A {reserve.tension_capacity_N:.0f} N; margin of safety {margin:+.2f}"
-    return CheckResult(check_id, title, status_of(required / rf), rf, required, "", where,
-                       detail, True)
+    return CheckResult(
+        check_id, title, status_of(required / rf), rf, required, "", where, detail, True
+    )
 
 
 def check_buckling(analysis: Analysis, reserves: dict[str, RodReserve]) -> CheckResult:
-    return _reserve_check(analysis, "buckling", "Buckling reserve of compression rods "
-                          "(Euler / Johnson)", analysis.design.limits.buckling_reserve,
-                          reserves, "buckling")
+    return _reserve_check(
+        analysis,
+        "buckling",
+        "Buckling reserve of compression rods (Euler / Johnson)",
+        analysis.design.limits.buckling_reserve,
+        reserves,
+        "buckling",
+    )
 
 
 def check_tension(analysis: Analysis, reserves: dict[str, RodReserve]) -> CheckResult:
-    return _reserve_check(analysis, "tension", "Tension reserve against yield",
-                          analysis.design.limits.tension_reserve, reserves, "tension")
+    return _reserve_check(
+        analysis,
+        "tension",
+        "Tension reserve against yield",
+        analysis.design.limits.tension_reserve,
+        reserves,
+        "tension",
+    )
 
 
 def check_compliance(analysis: Analysis, report: ComplianceReport) -> CheckResult:
@@ -354,43 +501,75 @@ def check_compliance(analysis: Analysis, report: ComplianceReport) -> CheckResul
         return _no_loads("compliance", title, limit, "mm")
     value, element, sweep, b, case = report.worst
     stiff = ", ".join(f"{k} {v:,.0f} N/mm" for k, v in report.route_stiffness_N_per_mm.items())
-    return CheckResult("compliance", title, status_of(abs(value) / limit), abs(value), limit,
-                       "mm", f"element '{element}' in {_pose(analysis, sweep, b)}, load case "
-                       f"'{case}'", f"vertical stiffness at the route pickups: {stiff}")
+    return CheckResult(
+        "compliance",
+        title,
+        status_of(abs(value) / limit),
+        abs(value),
+        limit,
+        "mm",
+        f"element '{element}' in {_pose(analysis, sweep, b)}, load case '{case}'",
+        f"vertical stiffness at the route pickups: {stiff}",
+    )
 
 
 def check_clearance(analysis: Analysis, report: ClearanceReport) -> CheckResult:
     title = "Clearance of rods and rockers to zones, tyres and each other"
     default = analysis.design.limits.clearance_mm
     if not report.pairs:
-        return CheckResult("clearance", title, "pass", None, default, "mm",
-                           "no pair to measure", "; ".join(report.skipped), True)
+        return CheckResult(
+            "clearance",
+            title,
+            "pass",
+            None,
+            default,
+            "mm",
+            "no pair to measure",
+            "; ".join(report.skipped),
+            True,
+        )
     worst = report.pairs[0]
     if worst.exact:
-        where = (f"{worst.a} to {worst.b} in {_pose(analysis, worst.sweep, worst.pose)}, "
-                 f"points {_point(worst.point_a)} and {_point(worst.point_b)}")
+        where = (
+            f"{worst.a} to {worst.b} in {_pose(analysis, worst.sweep, worst.pose)}, "
+            f"points {_point(worst.point_a)} and {_point(worst.point_b)}"
+        )
     else:
         where = f"{worst.a} to {worst.b}: more than {worst.distance_mm:.0f} mm at every pose"
     used = worst.limit_mm / worst.distance_mm if worst.distance_mm > 0 else np.inf
     closest = "; ".join(
         f"{p.a} to {p.b} {'' if p.exact else 'more than '}{p.distance_mm:.1f} mm "
-        f"(limit {p.limit_mm:g})" for p in report.pairs[:5])
+        f"(limit {p.limit_mm:g})"
+        for p in report.pairs[:5]
+    )
     detail = f"closest pairs over {report.poses} poses: {closest}"
     if worst.distance_mm < 0:
         detail = f"INTERFERENCE {-worst.distance_mm:.1f} mm deep; " + detail
     if report.skipped:
         detail += "; " + "; ".join(report.skipped)
-    return CheckResult("clearance", title, status_of(used), worst.distance_mm, worst.limit_mm,
-                       "mm", where, detail, True)
+    return CheckResult(
+        "clearance",
+        title,
+        status_of(used),
+        worst.distance_mm,
+        worst.limit_mm,
+        "mm",
+        where,
+        detail,
+        True,
+    )
 
 
 def _point(p: tuple[float, float, float]) -> str:
     return "(" + ", ".join(f"{v:.1f}" for v in p) + ")"
 
 
-def evaluate_checks(analysis: Analysis, reserves: dict[str, RodReserve] | None = None,
-                    compliance: ComplianceReport | None = None,
-                    clearance: ClearanceReport | None = None) -> list[CheckResult]:
+def evaluate_checks(
+    analysis: Analysis,
+    reserves: dict[str, RodReserve] | None = None,
+    compliance: ComplianceReport | None = None,
+    clearance: ClearanceReport | None = None,
+) -> list[CheckResult]:
     """Every check, in a fixed order (pass precomputed parts to avoid doing them twice)."""
     reserves = rod_reserves(analysis) if reserves is None else reserves
     compliance = compliance_report(analysis) if compliance is None else compliance
