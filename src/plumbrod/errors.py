@@ -10,6 +10,7 @@ from __future__ import annotations
 __all__ = [
     "AssemblyError",
     "DesignFileError",
+    "FigureError",
     "LocationError",
     "OutputError",
     "PlumbrodError",
@@ -62,6 +63,27 @@ class AssemblyError(PlumbrodError, RuntimeError):
         )
 
 
+class FigureError(PlumbrodError, ValueError):
+    """A figure computed from a design is not a finite number (NaN or infinity).
+
+    Attributes: ``source`` (the design file), ``key`` (where the figure sits in the
+    output, e.g. ``checks[3].value``) and ``value``.
+    """
+
+    def __init__(self, source: str, key: str, value: float) -> None:
+        self.source = source
+        self.key = key
+        self.value = value
+        super().__init__(str(self))
+
+    def __str__(self) -> str:
+        where = f"{self.source}: " if self.source else ""
+        return (
+            f"{where}the figure {self.key} came out as {self.value}, not a finite number; "
+            "check the design's numbers and units (mm, N, kg, km/h)"
+        )
+
+
 class LocationError(PlumbrodError, ValueError):
     """A body is not exactly located: a free motion or a redundant member.
 
@@ -98,15 +120,18 @@ class UsageError(PlumbrodError, ValueError):
 class OutputError(PlumbrodError, OSError):
     """An output file that cannot be written.
 
-    Attributes: ``path``, ``problem`` and ``fix``.
+    Attributes: ``path``, ``problem``, ``fix`` and ``option`` (the command-line option
+    that named the path, e.g. ``--output``, or "").
     """
 
-    def __init__(self, path: str, problem: str, fix: str = "") -> None:
+    def __init__(self, path: str, problem: str, fix: str = "", *, option: str = "") -> None:
         self.path = path
         self.problem = problem
         self.fix = fix
+        self.option = option
         super().__init__(str(self))
 
     def __str__(self) -> str:
         tail = f"; {self.fix}" if self.fix else ""
-        return f"{self.path}: {self.problem}{tail}"
+        where = f"{self.option} {self.path}" if self.option else self.path
+        return f"{where}: {self.problem}{tail}"

@@ -41,13 +41,15 @@ def register(subparsers: Any) -> None:
 
 def run(args: argparse.Namespace) -> int:
     from plumbrod.design.loading import load_design
-    from plumbrod.outputs.atomic import write_atomic
+    from plumbrod.outputs.atomic import check_target, write_atomic
     from plumbrod.outputs.report import as_json, as_text, verdict
     from plumbrod.verdict.findings import review
 
+    if args.output:  # refuse a bad path before the work
+        check_target(args.output, option="--output", inputs=[args.design])
     findings = review(load_design(args.design))
     text = as_json(findings) if args.json else as_text(findings)
     if args.output:
-        write_atomic(args.output, text)
+        write_atomic(args.output, text, option="--output", inputs=[args.design])
     sys.stdout.write(text)
     return 1 if verdict(findings.checks) == "fail" else 0

@@ -140,7 +140,7 @@ def _list_materials(as_json: bool) -> int:
             }
             for m in table.values()
         ]
-        print(json.dumps({"materials": rows}, indent=2))
+        print(json.dumps({"materials": rows}, indent=2, allow_nan=False))
         return EXIT_OK
     print(
         f"{'id':<16} {'basis':<8} {'E MPa':>9} {'Sy MPa':>8} {'Su MPa':>8} {'rho kg/m3':>9}  name"

@@ -38,13 +38,13 @@ def run(args: argparse.Namespace) -> int:
     from plumbrod.design.loading import parse_design
     from plumbrod.design.templates import BUNDLED_EXAMPLE, read_template
     from plumbrod.mechanics.analysis import Analysis
-    from plumbrod.outputs.atomic import write_many
+    from plumbrod.outputs.atomic import OutputSet, check_folder
     from plumbrod.outputs.plots import plot_findings
     from plumbrod.outputs.report import as_json, as_text, verdict
     from plumbrod.outputs.table import pose_table, table_csv
     from plumbrod.verdict.findings import review
 
-    out = Path(args.output_dir)
+    out = check_folder(args.output_dir, option="--output-dir")
     stem = Path(BUNDLED_EXAMPLE).stem
     text = read_template(BUNDLED_EXAMPLE)
     design_path = out / BUNDLED_EXAMPLE
@@ -52,16 +52,14 @@ def run(args: argparse.Namespace) -> int:
     analysis: Analysis = findings.analysis
     report = as_text(findings)
     sys.stdout.write(report)
-    written = write_many(
-        {
-            design_path: text,
-            out / f"{stem}-report.txt": report,
-            out / f"{stem}-report.json": as_json(findings),
-            out / f"{stem}-sweep.csv": table_csv(*pose_table(analysis)),
-        }
-    )
-    written += plot_findings(findings, out, stem)
-    written += export_files(analysis, out, stem=stem)
+    with OutputSet(option="--output-dir") as files:  # all seven files, or none
+        files.add(design_path, text)
+        files.add(out / f"{stem}-report.txt", report)
+        files.add(out / f"{stem}-report.json", as_json(findings))
+        files.add(out / f"{stem}-sweep.csv", table_csv(*pose_table(analysis)))
+        plot_findings(findings, out, stem, into=files)
+        export_files(analysis, out, stem=stem, into=files)
+    written = files.written
     print("")
     for path in written:
         print(f"wrote {path}")

@@ -11,6 +11,7 @@ from plumbrod.outputs.cautions import CAUTION
 
 if TYPE_CHECKING:  # pragma: no cover
     from plumbrod.mechanics.analysis import Analysis
+    from plumbrod.outputs.atomic import OutputSet
 
 __all__ = ["export_files", "register", "run"]
 
@@ -58,37 +59,48 @@ def export_files(
     dxf_version: str = "R2010",
     png: bool = False,
     stem: str | None = None,
+    into: OutputSet | None = None,
 ) -> list[Path]:
     """Write the DXF files of a solved design (and PNG previews when ``png``) into
-    ``folder``; every file is prepared before any is renamed into place.  Returns the
-    paths written.  ``plumbrod demo`` can call this with the bundled example."""
-    from plumbrod.outputs.atomic import write_many
+    ``folder``, all together or not at all; returns the paths.  With ``into`` the files
+    join that :class:`~plumbrod.outputs.atomic.OutputSet` and the caller commits it
+    (``plumbrod demo`` does, with the bundled example)."""
+    from plumbrod.outputs.atomic import OutputSet
     from plumbrod.outputs.dxf_export import design_drawings, dxf_bytes
 
+    if into is None:
+        with OutputSet(option="--output-dir") as own:
+            export_files(analysis, folder, dxf_version=dxf_version, png=png, stem=stem, into=own)
+        return own.written
     drawings = design_drawings(analysis, dxf_version=dxf_version, stem=stem)
     out = Path(folder)
-    files: dict[Path, bytes] = {out / name: dxf_bytes(doc) for name, doc in drawings.items()}
+    paths = [into.add(out / name, dxf_bytes(doc)) for name, doc in drawings.items()]
     if png:
         from plumbrod.outputs.dxf_preview import preview_png, route_view
 
         for name, doc in drawings.items():
             view = route_view(analysis.design) if name.endswith("-route.dxf") else "top"
-            files[(out / name).with_suffix(".png")] = preview_png(doc, view=view)
-    return write_many(files)
+            paths.append(into.add((out / name).with_suffix(".png"), preview_png(doc, view=view)))
+    return paths
 
 
 def run(args: argparse.Namespace) -> int:
     from plumbrod.design.loading import load_design
     from plumbrod.mechanics.analysis import analyse
+    from plumbrod.outputs.atomic import OutputSet, check_folder
 
+    check_folder(args.output_dir, option="--output-dir")
     analysis = analyse(load_design(args.design))
-    written = export_files(
-        analysis,
-        args.output_dir,
-        dxf_version=args.dxf_version,
-        png=args.png,
-        stem=Path(args.design).stem,
-    )
+    with OutputSet(option="--output-dir", inputs=[args.design]) as out:
+        export_files(
+            analysis,
+            args.output_dir,
+            dxf_version=args.dxf_version,
+            png=args.png,
+            stem=Path(args.design).stem,
+            into=out,
+        )
+    written = out.written
     for path in written:
         sys.stdout.write(f"wrote {path}\n")
     plates = sum(1 for p in written if "-plate-" in p.name and p.suffix == ".dxf")

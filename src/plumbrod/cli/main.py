@@ -9,7 +9,9 @@ from __future__ import annotations
 import argparse
 import importlib
 import os
+import signal
 import sys
+import threading
 from collections.abc import Sequence
 
 from plumbrod import __version__
@@ -47,20 +49,40 @@ def build_parser() -> argparse.ArgumentParser:
     return parser
 
 
+def _stop_on_sigterm(signum: int, frame: object) -> None:
+    raise SystemExit(128 + signum)  # unwinds like Ctrl-C: temporaries are removed
+
+
+def _silence_stdout() -> None:
+    """Point the standard output at the null device so the exit flush cannot fail."""
+    try:
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+    except (OSError, ValueError, AttributeError):
+        pass
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Run one verb and return its exit code; errors become one line on stderr."""
+    if sys.stdout is None:  # started with the standard output closed (`>&-`)
+        print("plumbrod: error: the standard output is closed; run without '>&-'", file=sys.stderr)
+        return EXIT_BAD_INPUT
     parser = build_parser()
     args = parser.parse_args(argv)
     handler = getattr(args, "handler", None)
     if handler is None:
         parser.print_help()
         return EXIT_BAD_INPUT
+    previous = None
+    if threading.current_thread() is threading.main_thread():
+        previous = signal.signal(signal.SIGTERM, _stop_on_sigterm)
     try:
-        return int(handler(args))
+        code = int(handler(args))
+        sys.stdout.flush()  # a full disk or /dev/full shows here, not at exit
+        return code
     except BrokenPipeError:
         # the reader (e.g. `| head`) went away: stop quietly, like other commands do
-        devnull = os.open(os.devnull, os.O_WRONLY)
-        os.dup2(devnull, sys.stdout.fileno())
+        _silence_stdout()
         return EXIT_OK
     except AssemblyError as exc:
         print(f"plumbrod: fail: {exc}", file=sys.stderr)
@@ -68,9 +90,22 @@ def main(argv: Sequence[str] | None = None) -> int:
     except PlumbrodError as exc:
         print(f"plumbrod: error: {exc}", file=sys.stderr)
         return EXIT_BAD_INPUT
+    except OSError as exc:
+        where = exc.filename if exc.filename is not None else "the standard output"
+        print(
+            f"plumbrod: error: {where} cannot be written ({exc.strerror or exc}); "
+            "free some disk space or write elsewhere",
+            file=sys.stderr,
+        )
+        if exc.filename is None:
+            _silence_stdout()
+        return EXIT_BAD_INPUT
     except KeyboardInterrupt:
         print("plumbrod: interrupted", file=sys.stderr)
         return 130
+    finally:
+        if previous is not None:
+            signal.signal(signal.SIGTERM, previous)
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -29,11 +29,13 @@ def run(args: argparse.Namespace) -> int:
     from plumbrod.errors import UsageError
     from plumbrod.outputs.atomic import write_atomic
 
+    if not args.file.strip():
+        raise UsageError("FILE", "is empty", "give a file name such as my_car.toml")
     target = Path(args.file)
     if target.is_dir():
         raise UsageError(args.file, "is a folder", "give a file name such as my_car.toml")
     if target.exists() and not args.force:
         raise UsageError(args.file, "already exists", "choose another name, or add --force")
-    write_atomic(target, read_template(STARTER))
+    write_atomic(target, read_template(STARTER), option="FILE")
     print(f"wrote {target}: edit the hardpoints, then run  plumbrod check {target}")
     return 0

@@ -36,10 +36,14 @@ def register(subparsers: Any) -> None:
 
 def run(args: argparse.Namespace) -> int:
     from plumbrod.design.loading import load_design
+    from plumbrod.outputs.atomic import OutputSet, check_folder
     from plumbrod.outputs.plots import plot_findings
     from plumbrod.verdict.findings import review
 
+    check_folder(args.output_dir, option="--output-dir")
     findings = review(load_design(args.design))
-    for path in plot_findings(findings, args.output_dir, Path(args.design).stem):
+    with OutputSet(option="--output-dir", inputs=[args.design]) as out:
+        plot_findings(findings, args.output_dir, Path(args.design).stem, into=out)
+    for path in out.written:
         print(f"wrote {path}")
     return 0

@@ -77,7 +77,7 @@ def run(args: argparse.Namespace) -> int:
     from plumbrod.design.loading import load_design, parse_design
     from plumbrod.errors import UsageError
     from plumbrod.mechanics.members import material_table
-    from plumbrod.outputs.atomic import write_atomic
+    from plumbrod.outputs.atomic import check_target, write_atomic
     from plumbrod.revise.sizing import apply_sizes, choose_sections, thinnest_wall_mm
     from plumbrod.verdict.findings import review
 
@@ -97,6 +97,7 @@ def run(args: argparse.Namespace) -> int:
     target = Path(args.output) if args.output else _free_name(source)
     if target.resolve() == source.resolve():
         raise UsageError("--output", "would overwrite the input design", "give another file name")
+    check_target(target, option="--output", inputs=[source])
     findings = review(design)
     if not findings.analysis.statics:
         raise UsageError(
@@ -217,7 +218,7 @@ def run(args: argparse.Namespace) -> int:
         "reserve factors are shown under 'after'; 'thinnest wall' is the least wall (mm) "
         "at the rod's present OD and material that meets both reserves"
     )
-    write_atomic(target, new_text)
+    write_atomic(target, new_text, option="--output", inputs=[source])
     print(f"wrote {target}")
     verdict_ok = all(c.section is not None for c in choices)
     failing = [c.id for c in sized.checks if c.status == "fail"]

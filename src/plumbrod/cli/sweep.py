@@ -46,9 +46,14 @@ def run(args: argparse.Namespace) -> int:
     from plumbrod.design.loading import load_design
     from plumbrod.errors import UsageError
     from plumbrod.mechanics.analysis import analyse
-    from plumbrod.outputs.atomic import write_many
+    from plumbrod.outputs.atomic import OutputSet, check_target
     from plumbrod.outputs.table import pose_table, table_csv, table_json
 
+    for option, value in (("--csv", args.csv), ("--json", args.json)):
+        if value is not None and value != "-":  # refuse a bad path before the work
+            check_target(value, option=option, inputs=[args.design])
+    if args.csv is not None and args.csv == args.json:
+        raise UsageError("--json", "is the same file as --csv", "give two different files")
     design = load_design(args.design)
     analysis = analyse(design)
     chosen = args.sweep or None
@@ -61,16 +66,18 @@ def run(args: argparse.Namespace) -> int:
                 "use one of: " + ", ".join(analysis.sweeps),
             )
     columns, rows = pose_table(analysis, chosen)
-    files: dict[str, str] = {}
     csv_path = args.csv
     if csv_path is None and args.json is None:
         csv_path = str(Path("exports") / f"{Path(args.design).stem}-sweep.csv")
-    if csv_path:
-        files[csv_path] = table_csv(columns, rows)
-    if args.json and args.json != "-":
-        files[args.json] = table_json(analysis, columns, rows)
+    with OutputSet(inputs=[args.design]) as out:
+        if csv_path:
+            out.option = "--csv"
+            out.add(csv_path, table_csv(columns, rows))
+        if args.json and args.json != "-":
+            out.option = "--json"
+            out.add(args.json, table_json(analysis, columns, rows))
     notes = sys.stderr if args.json == "-" else sys.stdout  # keep printed JSON clean
-    for path in write_many(files):
+    for path in out.written:
         print(f"wrote {path}: {len(rows)} poses x {len(columns)} columns", file=notes)
     if args.json == "-":
         sys.stdout.write(table_json(analysis, columns, rows))

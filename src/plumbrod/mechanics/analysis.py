@@ -13,7 +13,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from plumbrod.design.model import Design
-from plumbrod.errors import LocationError
+from plumbrod.errors import DesignFileError, LocationError
 from plumbrod.kinematics.build import build_linkage
 from plumbrod.kinematics.figures import SweepFigures, sweep_figures
 from plumbrod.kinematics.linkage import Linkage
@@ -76,6 +76,13 @@ def analyse(design: Design) -> Analysis:
     members = resolve_members(design)
     link, mobility, routes = locate(design)
     sweeps = run_sweeps(link, design.sweeps)
+    if not sweeps:
+        raise DesignFileError(
+            design.source,
+            "sweeps",
+            "every sweep is disabled, so there is no pose to solve or check",
+            "enable at least one: remove `enabled = false` from [sweeps.travel]",
+        )
     figures = {name: sweep_figures(link, routes, res) for name, res in sweeps.items()}
     cases = design_load_cases(design)
     loads = applied_loads(design, link, members, routes, cases) if cases else None

@@ -634,8 +634,11 @@ def export_design(
     """Write the design's DXF files into ``folder`` (created if missing) and return their
     paths.  Every drawing is built first; then every file is written to a temporary file
     beside its target and renamed, so an error leaves no partial file and no new file."""
-    from plumbrod.outputs.atomic import write_many
+    from plumbrod.outputs.atomic import OutputSet
 
     drawings = design_drawings(analysis, dxf_version=dxf_version, stem=stem)
     target = Path(folder)
-    return write_many({target / name: dxf_bytes(doc) for name, doc in drawings.items()})
+    with OutputSet(option="--output-dir") as out:
+        for name, doc in drawings.items():
+            out.add(target / name, dxf_bytes(doc))
+    return out.written

@@ -23,6 +23,8 @@ from plumbrod.verdict.findings import Findings
 if TYPE_CHECKING:
     from matplotlib.axes import Axes
 
+    from plumbrod.outputs.atomic import OutputSet
+
 __all__ = ["plot_findings"]
 
 _LIMIT_STYLE = {"color": "0.35", "linestyle": "--", "linewidth": 1.0}
@@ -168,12 +170,22 @@ def plot_forces(findings: Findings, ax: Axes, case: int) -> list[Any]:
     return drawn
 
 
-def plot_findings(findings: Findings, folder: str | Path, stem: str) -> list[Path]:
-    """Write the kinematics and forces figures as PNG files; returns their paths."""
+def plot_findings(
+    findings: Findings, folder: str | Path, stem: str, *, into: OutputSet | None = None
+) -> list[Path]:
+    """Write the kinematics and forces figures as PNG files; returns their paths.
+
+    With ``into`` the files join that :class:`~plumbrod.outputs.atomic.OutputSet` (the
+    caller commits it); without, they are written together or not at all."""
     from matplotlib.backends.backend_agg import FigureCanvasAgg
     from matplotlib.figure import Figure
 
-    from plumbrod.outputs.atomic import write_with
+    from plumbrod.outputs.atomic import OutputSet
+
+    if into is None:
+        with OutputSet(option="--output-dir") as own:
+            plot_findings(findings, folder, stem, into=own)
+        return own.written
 
     folder = Path(folder)
     written: list[Path] = []
@@ -188,22 +200,22 @@ def plot_findings(findings: Findings, folder: str | Path, stem: str) -> list[Pat
     plot_transmission(findings, axes[1, 1])
     figure.suptitle(f"{name}: kinematics")
     written.append(
-        write_with(
+        into.add_with(
             folder / f"{stem}-kinematics.png",
             lambda tmp: figure.savefig(tmp, format="png", dpi=110),
         )
     )
 
     cases = len(findings.analysis.loads.cases) if findings.analysis.loads else 1
-    figure = Figure(figsize=(12, 4.5 * cases), layout="constrained")
-    FigureCanvasAgg(figure)
-    axes = np.atleast_1d(figure.subplots(cases, 1))
+    forces = Figure(figsize=(12, 4.5 * cases), layout="constrained")
+    FigureCanvasAgg(forces)
+    axes = np.atleast_1d(forces.subplots(cases, 1))
     for k, ax in enumerate(axes):
         plot_forces(findings, ax, k)
-    figure.suptitle(f"{name}: forces")
+    forces.suptitle(f"{name}: forces")
     written.append(
-        write_with(
-            folder / f"{stem}-forces.png", lambda tmp: figure.savefig(tmp, format="png", dpi=110)
+        into.add_with(
+            folder / f"{stem}-forces.png", lambda tmp: forces.savefig(tmp, format="png", dpi=110)
         )
     )
     return written

@@ -7,7 +7,6 @@ unit says it (``_mm``, ``_deg``, ``_N``).
 
 from __future__ import annotations
 
-import json
 from collections.abc import Sequence
 
 import numpy as np
@@ -16,6 +15,7 @@ from numpy.typing import NDArray
 from plumbrod.mechanics.analysis import Analysis
 from plumbrod.mechanics.members import Member
 from plumbrod.outputs.cautions import CAUTION
+from plumbrod.outputs.json_text import dumps_finite
 from plumbrod.verdict.checks import CheckResult
 from plumbrod.verdict.findings import Findings
 
@@ -368,7 +368,7 @@ def as_json(findings: Findings, *, indent: int | None = 1) -> str:
         "sweeps": sweep_json(analysis),
         "caution": CAUTION,
     }
-    return json.dumps(doc, indent=indent, ensure_ascii=False) + "\n"
+    return dumps_finite(doc, source=d.source, indent=indent, ensure_ascii=False) + "\n"
 
 
 def _finite(value: float) -> float | None:

@@ -8,12 +8,12 @@ from __future__ import annotations
 
 import csv
 import io
-import json
 
 import numpy as np
 from numpy.typing import NDArray
 
 from plumbrod.mechanics.analysis import Analysis
+from plumbrod.outputs.json_text import dumps_finite
 
 __all__ = ["pose_table", "table_csv", "table_json"]
 
@@ -123,4 +123,4 @@ def table_json(analysis: Analysis, columns: list[str], rows: list[list[object]])
         "columns": columns,
         "rows": rows,
     }
-    return json.dumps(doc, ensure_ascii=False) + "\n"
+    return dumps_finite(doc, source=analysis.design.source, ensure_ascii=False) + "\n"
