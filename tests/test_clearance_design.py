@@ -67,7 +67,8 @@ def test_a_zone_moved_into_a_rod_is_interference_at_least_as_deep_as_at_rest():
     points, _, _ = _all_points(analysis)
     zone = zone_solids(analysis)["zone 'intruder'"][0]
     brute = separation(_rod_capsule(analysis, "drop_left", points), zone).distance_mm
-    assert pair.distance_mm == pytest.approx(float(np.min(brute)), abs=1e-9)
+    assert pair.pose_distance_mm == pytest.approx(float(np.min(brute)), abs=1e-9)
+    assert pair.distance_mm <= pair.pose_distance_mm  # between the poses: never more
     at_rest = separation(
         Capsule(np.array([57.5, 514.0, 147.0]), np.array([57.5, 514.0, 250.0]), 8.0), zone
     ).distance_mm
@@ -151,7 +152,8 @@ def test_a_rocker_plate_passing_a_zone_edge_in_roll_matches_brute_force():
     )
     zone = zone_solids(analysis)["zone 'corner_box'"][0]
     brute = np.asarray(separation(plate, zone).distance_mm)
-    assert pair.distance_mm == pytest.approx(float(brute.min()), abs=1e-9)
+    assert pair.pose_distance_mm == pytest.approx(float(brute.min()), abs=1e-9)
+    assert pair.distance_mm <= pair.pose_distance_mm  # between the poses: never more
     assert pair.pose == int(np.argmin(brute))
     # the plate really passes the edge: the distance has an interior minimum in roll
     assert 0 < int(np.argmin(brute)) < brute.size - 1
@@ -216,6 +218,7 @@ def test_an_element_envelope_moves_with_the_element_and_is_checked():
     )
     zone = zone_solids(analysis)["zone 'radiator'"][0]
     brute = np.asarray(separation(box, zone).distance_mm)
-    assert pair.distance_mm == pytest.approx(float(brute.min()), abs=1e-9)
+    assert pair.pose_distance_mm == pytest.approx(float(brute.min()), abs=1e-9)
+    assert pair.distance_mm <= pair.pose_distance_mm  # between the poses: never more
     # rods joined to the splitter are not paired with its envelope
     assert not any("envelope" in p.a and p.b.startswith("rod") for p in report.pairs)

@@ -12,18 +12,28 @@ at the design pose is not checked against that zone (that end is meant to be the
 report lists such pairs. A side-view planar design has no tyre envelopes: its parts all
 lie in one plane and the tyres stand beside it. Distances are exact for separated pairs
 (:mod:`plumbrod.clearance.distance`); negative values are interference depths.
+
+Between the poses: a pair that comes within its limit plus :data:`REFINE_MARGIN_MM` of it
+(or within the largest distance a solid moves between neighbouring poses, if more) is
+searched between the poses next to its closest one, re-solving the linkage at trial
+driver values (:mod:`plumbrod.clearance.between_poses`), so its figure is the least
+distance over the continuous sweep to 0.01 mm (``ClearancePair.between_poses``).  Other
+pairs keep the least distance over the poses; they cannot come within their limit
+between poses.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 from numpy.typing import NDArray
 
+from plumbrod.clearance.between_poses import Request, defining_points, refine_pairs
 from plumbrod.clearance.distance import least_separations, separation
 from plumbrod.geometry.shapes import Box, Capsule, Cylinder, Plate, Prism, Solid
 from plumbrod.kinematics.linkage import Kinematics
+from plumbrod.kinematics.sweeps import describe_values
 from plumbrod.mechanics.analysis import Analysis
 from plumbrod.mechanics.plates import rocker_outlines
 
@@ -36,13 +46,22 @@ FAR_MM = 50.0
 """Pairs whose swept bounding boxes stay this much beyond their limit apart are not
 measured exactly: their distance is reported as that lower bound ("more than")."""
 
+REFINE_MARGIN_MM = 50.0
+"""Pairs whose least distance over the poses is within their limit plus this (mm) are
+refined between the poses."""
+
 
 @dataclass(frozen=True)
 class ClearancePair:
     """The least distance of one pair over every pose, and where it happens.
 
-    ``exact`` is False for a far pair: ``distance_mm`` is then a lower bound and the
-    pose and points are not known (``pose`` = -1).
+    ``exact``: ``distance_mm`` is a measured surface-to-surface distance of the two
+    solids at a solved pose (the driver values ``at``), with its closest points.  It is
+    False for a far pair: ``distance_mm`` is then a lower bound and the pose and points
+    are not known (``pose`` = -1).  ``between_poses``: the pair was searched between its
+    neighbouring sweep poses, so ``distance_mm`` is the least distance over the
+    continuous sweep (to 0.01 mm); otherwise it is the least over the sweep poses,
+    ``pose_distance_mm``.  ``pose`` is the sweep pose where the poses came closest.
     """
 
     a: str
@@ -54,6 +73,16 @@ class ClearancePair:
     point_a: tuple[float, float, float]
     point_b: tuple[float, float, float]
     exact: bool = True
+    pose_distance_mm: float = float("nan")
+    """Least distance over the sweep poses only (mm); nan for a far pair."""
+    between_poses: bool = False
+    driver: dict[str, float] = field(default_factory=dict)
+    """Driver values (report keys such as ``travel_mm``) where ``distance_mm`` is."""
+
+    @property
+    def at(self) -> str:
+        """The driver values of the closest approach as text (``travel +12.35 mm``)."""
+        return describe_values(self.driver)
 
     @property
     def margin_mm(self) -> float:
@@ -111,13 +140,21 @@ class _Moving:
     rod: str | None
 
 
-def _moving_solids(analysis: Analysis, kins: list[Kinematics]) -> list[_Moving]:
+def _moving_solids(
+    analysis: Analysis,
+    kins: list[Kinematics],
+    outlines: dict | None = None,
+    only: set[str] | None = None,
+) -> list[_Moving]:
+    """Every moving solid at the poses of ``kins`` (only the names in ``only``, if given)."""
     link, design = analysis.link, analysis.design
     pts = np.concatenate([k.points for k in kins])
     rot = np.concatenate([k.rotation for k in kins])
     trans = np.concatenate([k.translation for k in kins])
     out: list[_Moving] = []
     for rod in design.rods:
+        if only is not None and f"rod '{rod.name}'" not in only:
+            continue
         ia, ib = link.point(rod.end_a), link.point(rod.end_b)
         a, b = pts[:, ia], pts[:, ib]
         axis = (b - a) / np.linalg.norm(b - a, axis=-1, keepdims=True)
@@ -134,7 +171,9 @@ def _moving_solids(analysis: Analysis, kins: list[Kinematics]) -> list[_Moving]:
         )
     for element in design.elements:
         env = element.envelope
-        if env is None:
+        if env is None or (
+            only is not None and f"envelope of element '{element.name}'" not in only
+        ):
             continue
         b = link.body(element.name)
         r0 = _rotation_xyz(env.rotation_deg)
@@ -151,7 +190,10 @@ def _moving_solids(analysis: Analysis, kins: list[Kinematics]) -> list[_Moving]:
                 None,
             )
         )
-    for name, outline in rocker_outlines(design).items():
+    outlines = rocker_outlines(design) if outlines is None else outlines
+    for name, outline in outlines.items():
+        if only is not None and f"plate of rocker '{name}'" not in only:
+            continue
         b = link.body(name)
         verts = outline.vertices_3d(rot[:, b], trans[:, b], chord_tol_mm=0.5)
         rocker = next(r for r in design.rockers if r.name == name)
@@ -170,18 +212,12 @@ def _moving_solids(analysis: Analysis, kins: list[Kinematics]) -> list[_Moving]:
     return out
 
 
-def clearance_report(analysis: Analysis) -> ClearanceReport:
-    """Least distances of every pair over the poses of every sweep."""
+def _tyre_solids(
+    analysis: Analysis, kins: list[Kinematics]
+) -> dict[str, tuple[Solid, float, Solid]]:
+    """Tyre envelopes at the poses (moving with their uprights), limit, and at rest."""
     design, link = analysis.design, analysis.link
-    names = list(analysis.sweeps)
-    kins = [analysis.sweeps[n].solved.kin for n in names]
-    sizes = [analysis.sweeps[n].spec.size for n in names]
-    starts = np.cumsum([0, *sizes])
-    moving = _moving_solids(analysis, kins)
-    zones = zone_solids(analysis)
     default = design.limits.clearance_mm
-
-    # tyre envelopes move with their uprights
     pts = np.concatenate([k.points for k in kins])
     rot = np.concatenate([k.rotation for k in kins])
     tyres: dict[str, tuple[Solid, float, Solid]] = {}
@@ -198,7 +234,23 @@ def clearance_report(analysis: Analysis) -> ClearanceReport:
             default,
             at_rest,
         )
+    return tyres
 
+
+def clearance_report(analysis: Analysis, *, between_poses: bool = True) -> ClearanceReport:
+    """Least distances of every pair over every sweep: over the poses, and between the
+    poses for the pairs near their limit (``between_poses=False``: the poses only)."""
+    design = analysis.design
+    names = list(analysis.sweeps)
+    kins = [analysis.sweeps[n].solved.kin for n in names]
+    sizes = [analysis.sweeps[n].spec.size for n in names]
+    starts = np.cumsum([0, *sizes])
+    outlines = rocker_outlines(design)
+    moving = _moving_solids(analysis, kins, outlines)
+    zones = zone_solids(analysis)
+    default = design.limits.clearance_mm
+
+    tyres = _tyre_solids(analysis, kins)
     pairs: list[tuple[Solid, Solid]] = []
     meta: list[tuple[str, str, float, str | None, str | None]] = []
     skipped: list[str] = []
@@ -223,32 +275,109 @@ def clearance_report(analysis: Analysis) -> ClearanceReport:
     results = (
         dict(zip(near, least_separations([pairs[i] for i in near]), strict=True)) if near else {}
     )
+    found: dict[int, tuple[int, int, float, Array, Array]] = {}
+    for i, res in results.items():
+        sweep_index = int(np.searchsorted(starts, res.pose_index, side="right") - 1)
+        local = int(res.pose_index - starts[sweep_index])
+        found[i] = (sweep_index, local, float(res.distance_mm), res.point_a, res.point_b)
+    refined = _refine(analysis, names, outlines, zones, meta, found) if between_poses else {}
     out: list[ClearancePair] = []
     margins: dict[str, float] = {r.name: float("inf") for r in design.rods}
     for i, (a, b, limit, rod_a, rod_b) in enumerate(meta):
-        res = results.get(i)
-        if res is None:
+        if i not in found:
             pair = ClearancePair(
                 a, b, bounds[i], limit, "", -1, (np.nan,) * 3, (np.nan,) * 3, exact=False
             )  # type: ignore[arg-type]
         else:
-            sweep_index = int(np.searchsorted(starts, res.pose_index, side="right") - 1)
+            sweep_index, local, dist, pa, pb = found[i]
+            spec = analysis.sweeps[names[sweep_index]].spec
+            driver = {k: float(v[local]) for k, v in spec.values.items()}
+            between = False
+            if i in refined and refined[i].between:
+                r = refined[i]
+                dist, pa, pb, driver, between = r.distance_mm, r.point_a, r.point_b, r.values, True
             pair = ClearancePair(
                 a,
                 b,
-                float(res.distance_mm),
+                dist,
                 limit,
                 names[sweep_index],
-                int(res.pose_index - starts[sweep_index]),
-                tuple(float(v) for v in res.point_a),  # type: ignore[arg-type]
-                tuple(float(v) for v in res.point_b),
-            )  # type: ignore[arg-type]
+                local,
+                tuple(float(v) for v in pa),  # type: ignore[arg-type]
+                tuple(float(v) for v in pb),  # type: ignore[arg-type]
+                pose_distance_mm=found[i][2],
+                between_poses=between or i in refined,
+                driver=driver,
+            )
         out.append(pair)
         for rod in (rod_a, rod_b):
             if rod is not None:
                 margins[rod] = min(margins[rod], pair.margin_mm)
     out.sort(key=lambda p: p.margin_mm)
     return ClearanceReport(tuple(out), tuple(skipped), margins, int(starts[-1]))
+
+
+def _refine(
+    analysis: Analysis,
+    names: list[str],
+    outlines: dict,
+    zones: dict[str, tuple[Solid, float]],
+    meta: list[tuple[str, str, float, str | None, str | None]],
+    found: dict[int, tuple[int, int, float, Array, Array]],
+) -> dict:
+    """Refine between the poses every measured pair near its limit; by pair index."""
+    fixed = {name: solid for name, (solid, _) in zones.items()}
+
+    def solids_at(kin: Kinematics, only: set[str] | None = None) -> dict[str, Solid]:
+        moving = _moving_solids(analysis, [kin], outlines, only)
+        out: dict[str, Solid] = {m.name: m.solid for m in moving}
+        if only is None or any(name.startswith("tyre '") for name in only):
+            out.update({name: t[0] for name, t in _tyre_solids(analysis, [kin]).items()})
+        return out
+
+    grid = analysis.design.sweeps.heave_roll_steps
+    refined: dict = {}
+    for sweep_index, name in enumerate(names):
+        result = analysis.sweeps[name]
+        shape = tuple(grid) if name == "heave_roll" and grid else None
+        travel = {
+            key: _step_travel(defining_points(solid), shape)
+            for key, solid in solids_at(result.solved.kin).items()
+        }
+        chosen = [
+            i
+            for i, (s, _, dist, _, _) in found.items()
+            if s == sweep_index
+            and dist - meta[i][2]
+            <= max(REFINE_MARGIN_MM, travel.get(meta[i][0], 0.0) + travel.get(meta[i][1], 0.0))
+        ]
+        if not chosen:
+            continue
+        requests = [
+            Request(meta[i][0], meta[i][1], found[i][1], found[i][2], found[i][3], found[i][4])
+            for i in chosen
+        ]
+        answers = refine_pairs(
+            analysis.link,
+            result,
+            requests,
+            solids_at,
+            fixed,
+            grid=shape,  # type: ignore[arg-type]
+        )
+        refined.update(dict(zip(chosen, answers, strict=True)))
+    return refined
+
+
+def _step_travel(points: Array, grid: tuple[int, int] | None) -> float:
+    """Largest travel (mm) of any of the points (poses, k, 3) between neighbouring poses."""
+    if points.shape[0] < 2:
+        return 0.0
+    if grid is None:
+        return float(np.max(np.linalg.norm(np.diff(points, axis=0), axis=-1)))
+    cube = points.reshape(*grid, *points.shape[1:])
+    steps = [np.diff(cube, axis=ax) for ax in (0, 1) if cube.shape[ax] > 1]
+    return max((float(np.max(np.linalg.norm(d, axis=-1))) for d in steps), default=0.0)
 
 
 def _bounds(solid: Solid) -> tuple[Array, Array]:

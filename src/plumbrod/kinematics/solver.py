@@ -30,9 +30,11 @@ from plumbrod.kinematics.linkage import Kinematics, Linkage
 __all__ = [
     "RESIDUAL_TOL_MM",
     "Solved",
+    "design_branch",
     "evaluate",
     "evaluate_residual",
     "newton",
+    "solve_near",
     "solve_poses",
     "tangent",
 ]
@@ -257,6 +259,45 @@ def solve_poses(
         pose = _put(pose, np.array([i]), p)
     kin, res, jac = evaluate(link, drive, pose)
     return Solved(pose, kin, res, jac, solved.iterations)
+
+
+def design_branch(link: Linkage, drive: Drive) -> tuple[NDArray[np.intp], Array]:
+    """The rows and sign that identify the design's assembly branch (see the module)."""
+    base = link.design_pose(1)
+    base_drive = drive.with_parameters(np.zeros((1, drive.parameters.shape[1])))
+    _, _, jac0 = evaluate(link, base_drive, base)
+    rows = _branch_rows(jac0[0])
+    return rows, _branch_sign(jac0, rows)
+
+
+def solve_near(
+    link: Linkage,
+    drive: Drive,
+    guess: Pose,
+    *,
+    sweep_name: str = "sweep",
+    describe: Callable[[Array], str] | None = None,
+    branch: tuple[NDArray[np.intp], Array] | None = None,
+) -> Solved:
+    """Solve the poses of ``drive`` from a close ``guess`` (B poses), e.g. solved poses
+    of a sweep moved along their tangents to nearby driver values.
+
+    Poses that do not converge, or land on another assembly branch than the design's,
+    are solved again from the design pose by :func:`solve_poses` (which raises
+    AssemblyError when they cannot be reached).  One design only (points (1, np, 3)).
+    ``branch``: :func:`design_branch` of the linkage and drive, when already known.
+    """
+    rows, signs0 = design_branch(link, drive) if branch is None else branch
+    solved, ok = newton(link, drive, guess)
+    ok &= _branch_sign(solved.jacobian, rows) == signs0
+    if ok.all():
+        return solved
+    redo = np.flatnonzero(~ok)
+    _, sub_drive = _subset(link, drive, redo)
+    again = solve_poses(link, sub_drive, sweep_name=sweep_name, describe=describe)
+    pose = _put(solved.pose, redo, again.pose)
+    kin, res, jac = evaluate(link, drive, pose)
+    return Solved(pose, kin, res, jac, solved.iterations + again.iterations)
 
 
 def _branch_rows(jac: Array) -> NDArray[np.intp]:

@@ -206,11 +206,7 @@ def as_text(findings: Findings) -> str:
         ]
         rows = [("solid", "against", "distance", "limit", "where")]
         for p in findings.clearance.pairs[:CLOSEST_SHOWN]:
-            where = (
-                f"sweep '{p.sweep}' at {analysis.sweeps[p.sweep].spec.describe(p.pose)}"
-                if p.exact
-                else "every pose (bound)"
-            )
+            where = f"sweep '{p.sweep}' at {p.at}" if p.exact else "every pose (bound)"
             dist = f"{p.distance_mm:.1f}" if p.exact else f"> {p.distance_mm:.0f}"
             rows.append((p.a, p.b, dist, f"{p.limit_mm:g}", where))
         lines += _table(rows)
@@ -353,6 +349,9 @@ def as_json(findings: Findings, *, indent: int | None = 1) -> str:
                     "exact": p.exact,
                     "sweep": p.sweep if p.exact else None,
                     "pose": p.pose if p.exact else None,
+                    "driver": p.driver if p.exact else None,
+                    "between_poses": p.between_poses,
+                    "pose_distance_mm": round(p.pose_distance_mm, 6) if p.exact else None,
                     "point_a_mm": [round(v, 6) for v in p.point_a] if p.exact else None,
                     "point_b_mm": [round(v, 6) for v in p.point_b] if p.exact else None,
                 }

@@ -531,7 +531,7 @@ def check_clearance(analysis: Analysis, report: ClearanceReport) -> CheckResult:
     worst = report.pairs[0]
     if worst.exact:
         where = (
-            f"{worst.a} to {worst.b} in {_pose(analysis, worst.sweep, worst.pose)}, "
+            f"{worst.a} to {worst.b} in sweep '{worst.sweep}' at {worst.at}, "
             f"points {_point(worst.point_a)} and {_point(worst.point_b)}"
         )
     else:
