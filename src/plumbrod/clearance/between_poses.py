@@ -177,9 +177,9 @@ def refine_pairs(
             failed[:] = True
             return d, pa, pb
         moving = solids_at(kin, wanted)
-        for r in np.flatnonzero(active & ~failed):
+        for r in (int(i) for i in np.flatnonzero(active & ~failed)):
             req = requests[r]
-            sep = separation(solid(req.a, moving, int(r)), solid(req.b, moving, int(r)))
+            sep = separation(solid(req.a, moving, r), solid(req.b, moving, r))
             d[r] = float(np.asarray(sep.distance_mm).reshape(-1)[0])
             pa[r] = np.asarray(sep.point_a).reshape(-1, 3)[0]
             pb[r] = np.asarray(sep.point_b).reshape(-1, 3)[0]

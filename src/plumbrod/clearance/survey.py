@@ -25,12 +25,14 @@ between poses.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import Literal, cast
 
 import numpy as np
 from numpy.typing import NDArray
 
 from plumbrod.clearance.between_poses import Request, defining_points, refine_pairs
 from plumbrod.clearance.distance import least_separations, separation
+from plumbrod.design.model import Vec3
 from plumbrod.geometry.shapes import Box, Capsule, Cylinder, Plate, Prism, Solid
 from plumbrod.kinematics.linkage import Kinematics
 from plumbrod.kinematics.sweeps import describe_values
@@ -115,18 +117,20 @@ def zone_solids(analysis: Analysis) -> dict[str, tuple[Solid, float]]:
         p = zone.params
         limit = default if zone.clearance_mm is None else zone.clearance_mm
         solid: Solid
+        # the design reader stored each zone's parameters with these types
         if zone.kind == "box":
             solid = Box(
                 np.array(p["centre_mm"]),
                 np.array(p["size_mm"]) / 2.0,
-                _rotation_xyz(p["rotation_deg"]),
-            )  # type: ignore[arg-type]
+                _rotation_xyz(cast(Vec3, p["rotation_deg"])),
+            )
         elif zone.kind == "cylinder":
-            a, b = p["axis_mm"]  # type: ignore[misc]
-            solid = Cylinder(np.array(a), np.array(b), float(p["radius_mm"]))  # type: ignore[arg-type]
+            a, b = cast(tuple[Vec3, Vec3], p["axis_mm"])
+            solid = Cylinder(np.array(a), np.array(b), float(cast(float, p["radius_mm"])))
         else:
-            d0, d1 = p["depth_mm"]  # type: ignore[misc]
-            solid = Prism(np.array(p["outline_mm"]), p["plane"], d0, d1)  # type: ignore[arg-type]
+            d0, d1 = cast(tuple[float, float], p["depth_mm"])
+            plane = cast(Literal["front", "side", "top"], p["plane"])
+            solid = Prism(np.array(p["outline_mm"]), plane, d0, d1)
         out[f"zone '{zone.name}'"] = (solid, limit)
     return out
 
@@ -175,16 +179,16 @@ def _moving_solids(
             only is not None and f"envelope of element '{element.name}'" not in only
         ):
             continue
-        b = link.body(element.name)
+        body_ix = link.body(element.name)
         r0 = _rotation_xyz(env.rotation_deg)
-        centre = (rot[:, b] @ np.array(env.centre_mm)) + trans[:, b]
+        centre = (rot[:, body_ix] @ np.array(env.centre_mm)) + trans[:, body_ix]
         anchors = np.array(
             [p.position_mm for p in design.pickups.values() if p.body == element.name]
         )
         out.append(
             _Moving(
                 f"envelope of element '{element.name}'",
-                Box(centre, np.array(env.size_mm) / 2.0, rot[:, b] @ r0),
+                Box(centre, np.array(env.size_mm) / 2.0, rot[:, body_ix] @ r0),
                 frozenset({element.name}),
                 anchors.reshape(-1, 3),
                 None,
@@ -194,8 +198,8 @@ def _moving_solids(
     for name, outline in outlines.items():
         if only is not None and f"plate of rocker '{name}'" not in only:
             continue
-        b = link.body(name)
-        verts = outline.vertices_3d(rot[:, b], trans[:, b], chord_tol_mm=0.5)
+        body_ix = link.body(name)
+        verts = outline.vertices_3d(rot[:, body_ix], trans[:, body_ix], chord_tol_mm=0.5)
         rocker = next(r for r in design.rockers if r.name == name)
         anchors = np.array(
             [p.position_mm for p in design.pickups.values() if p.body == name] + [rocker.axis_a_mm]
@@ -264,12 +268,12 @@ def clearance_report(analysis: Analysis, *, between_poses: bool = True) -> Clear
                 continue
             pairs.append((m.solid, zone))
             meta.append((m.name, zname, limit, m.rod, None))
-    for i, a in enumerate(moving):
-        for b in moving[i + 1 :]:
-            if a.bodies & b.bodies:
+    for i, first in enumerate(moving):
+        for second in moving[i + 1 :]:
+            if first.bodies & second.bodies:
                 continue
-            pairs.append((a.solid, b.solid))
-            meta.append((a.name, b.name, default, a.rod, b.rod))
+            pairs.append((first.solid, second.solid))
+            meta.append((first.name, second.name, default, first.rod, second.rod))
     bounds = [_box_gap(_bounds(a), _bounds(b)) for a, b in pairs]
     near = [i for i, (gap, m) in enumerate(zip(bounds, meta, strict=True)) if gap <= m[2] + FAR_MM]
     results = (
@@ -287,7 +291,7 @@ def clearance_report(analysis: Analysis, *, between_poses: bool = True) -> Clear
         if i not in found:
             pair = ClearancePair(
                 a, b, bounds[i], limit, "", -1, (np.nan,) * 3, (np.nan,) * 3, exact=False
-            )  # type: ignore[arg-type]
+            )
         else:
             sweep_index, local, dist, pa, pb = found[i]
             spec = analysis.sweeps[names[sweep_index]].spec
@@ -303,8 +307,8 @@ def clearance_report(analysis: Analysis, *, between_poses: bool = True) -> Clear
                 limit,
                 names[sweep_index],
                 local,
-                tuple(float(v) for v in pa),  # type: ignore[arg-type]
-                tuple(float(v) for v in pb),  # type: ignore[arg-type]
+                _vec3(pa),
+                _vec3(pb),
                 pose_distance_mm=found[i][2],
                 between_poses=between or i in refined,
                 driver=driver,
@@ -339,7 +343,7 @@ def _refine(
     refined: dict = {}
     for sweep_index, name in enumerate(names):
         result = analysis.sweeps[name]
-        shape = tuple(grid) if name == "heave_roll" and grid else None
+        shape = (int(grid[0]), int(grid[1])) if name == "heave_roll" and grid else None
         travel = {
             key: _step_travel(defining_points(solid), shape)
             for key, solid in solids_at(result.solved.kin).items()
@@ -363,7 +367,7 @@ def _refine(
             requests,
             solids_at,
             fixed,
-            grid=shape,  # type: ignore[arg-type]
+            grid=shape,
         )
         refined.update(dict(zip(chosen, answers, strict=True)))
     return refined
@@ -378,6 +382,12 @@ def _step_travel(points: Array, grid: tuple[int, int] | None) -> float:
     cube = points.reshape(*grid, *points.shape[1:])
     steps = [np.diff(cube, axis=ax) for ax in (0, 1) if cube.shape[ax] > 1]
     return max((float(np.max(np.linalg.norm(d, axis=-1))) for d in steps), default=0.0)
+
+
+def _vec3(point: Array) -> Vec3:
+    """A point (3,) as a tuple of floats."""
+    x, y, z = (float(v) for v in point)
+    return (x, y, z)
 
 
 def _bounds(solid: Solid) -> tuple[Array, Array]:

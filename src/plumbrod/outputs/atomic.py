@@ -43,6 +43,7 @@ import time
 from collections.abc import Callable, Iterable, Iterator, Mapping
 from pathlib import Path
 from types import TracebackType
+from typing import TypeVar
 
 from plumbrod.errors import OutputError
 
@@ -68,6 +69,8 @@ TEMP_TAG = ".plumbrod-tmp-"
 
 STALE_AFTER_S = 24 * 3600.0
 """A temporary this old is stale even when its process id is in use again."""
+
+_PathT = TypeVar("_PathT", bound=str | os.PathLike[str])
 
 
 def _problem(exc: OSError) -> str:
@@ -252,7 +255,7 @@ class OutputSet:
 
         return self.add_with(path, write)
 
-    def add_with(self, path: PathLike, writer: Callable[[Path], None]) -> Path:
+    def add_with(self, path: PathLike, writer: Callable[[Path], object]) -> Path:
         """Stage a file that ``writer(tmp_path)`` fills; returns the final path."""
         if self._done:
             raise RuntimeError("this OutputSet was already committed or discarded")
@@ -329,7 +332,7 @@ class OutputSet:
 
 def write_with(
     path: PathLike,
-    writer: Callable[[Path], None],
+    writer: Callable[[Path], object],
     *,
     option: str = "",
     inputs: Iterable[PathLike] = (),
@@ -350,7 +353,7 @@ def write_atomic(
 
 
 def write_many(
-    files: Mapping[PathLike, str | bytes], *, option: str = "", inputs: Iterable[PathLike] = ()
+    files: Mapping[_PathT, str | bytes], *, option: str = "", inputs: Iterable[PathLike] = ()
 ) -> list[Path]:
     """Write several files all together or not at all; returns the final paths."""
     with OutputSet(option=option, inputs=inputs) as out:
