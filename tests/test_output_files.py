@@ -270,6 +270,25 @@ def test_output_set_removes_temporaries_on_any_error(tmp_path: Path) -> None:
     assert list(tmp_path.iterdir()) == []
 
 
+def test_an_interrupt_right_after_the_temporary_is_created_leaks_nothing(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # Ctrl-C between creating the temporary file and anything after it: the temporary
+    # was recorded before it existed, so the set still removes it
+    real_open = os.open
+
+    def open_then_interrupt(path: str, flags: int, mode: int = 0o777) -> int:
+        fd = real_open(path, flags, mode)
+        os.close(fd)
+        raise KeyboardInterrupt
+
+    monkeypatch.setattr(os, "open", open_then_interrupt)
+    with pytest.raises(KeyboardInterrupt), OutputSet() as out:
+        out.add(tmp_path / "a.txt", "x")
+    monkeypatch.undo()
+    assert list(tmp_path.iterdir()) == []
+
+
 def test_output_set_writer_error_leaves_nothing(tmp_path: Path) -> None:
     def broken(tmp: Path) -> None:
         tmp.write_text("partial")

@@ -3,19 +3,19 @@
 The survey measures every pair at the sweep poses; a pair's true least distance can lie
 between two of them (a rod sweeping past a box corner).  For a pair whose closest pose
 is ``k``, :func:`refine_pairs` searches the driver values between the poses either side
-of ``k`` by golden-section search on the sweep parameter, re-solving the linkage at each
-trial value (from the solved pose ``k`` moved along its tangent).
+of ``k`` by a zooming search on the sweep parameter: :data:`SAMPLES` trial values evenly
+over the bracket (a grid of them on a heave x roll grid sweep), the linkage re-solved at
+every one (from the solved pose ``k`` moved along its tangent), all pairs and trials in
+one batch; then the bracket shrinks to the two sample spacings around the best trial,
+and again.
 
 Stopping rule: the distance between two solids changes no faster than their points move,
-so over a bracket of parameter width ``w`` it changes by at most ``M w``, where ``M`` bounds
-the travel of the solids' defining points per unit parameter (twice their largest travel
-to a neighbouring pose, for safety).  The search narrows the bracket until ``M w`` is below
-:data:`TOL_MM`, so the figure found is the least distance over the continuous sweep near
-``k`` to 0.01 mm (it is never above the distance at pose ``k``).  A grid sweep (heave x roll)
-is searched along heave, then roll, twice.
-
-References: golden-section search, J. Kiefer, "Sequential minimax search for a maximum",
-Proc. Amer. Math. Soc. 4 (1953) 502-506.
+so between samples ``s`` apart (in the parameter) it can dip at most ``M s / 2`` below the
+samples, where ``M`` bounds the travel of the solids' defining points per unit parameter
+(twice their largest travel to a neighbouring pose, for safety).  The search zooms until
+``M s / 2`` is below :data:`TOL_MM`, so the figure found is the least distance over the
+continuous sweep near ``k`` to 0.01 mm, assuming one minimum near ``k`` (it is never above
+the distance at pose ``k``).
 """
 
 from __future__ import annotations
@@ -26,7 +26,7 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from plumbrod.clearance.distance import separation
+from plumbrod.clearance.distance import least_separations
 from plumbrod.errors import AssemblyError
 from plumbrod.geometry.shapes import Box, Capsule, Cylinder, Plate, Prism, Solid
 from plumbrod.kinematics.linkage import Kinematics, Linkage
@@ -40,8 +40,10 @@ Array = NDArray[np.float64]
 TOL_MM = 0.01
 """Accuracy of a refined least distance (mm)."""
 
-_GOLDEN = (np.sqrt(5.0) - 1.0) / 2.0  # 0.618...
-_MAX_ITERATIONS = 60
+SAMPLES = 17
+"""Trial values per bracket along one sweep direction (9 per direction on a grid)."""
+_GRID_SAMPLES = 9
+_MAX_ROUNDS = 12
 
 
 @dataclass(frozen=True)
@@ -106,17 +108,25 @@ def defining_points(solid: Solid) -> np.ndarray:
     return np.zeros((1, 3))
 
 
-def _lines(
-    pose: int, size: int, grid: tuple[int, int] | None
-) -> list[tuple[int | None, int | None]]:
-    """Neighbour pose indices (lower, upper) along each sweep direction of ``pose``."""
+def _directions(pose: int, size: int, grid: tuple[int, int] | None) -> list[tuple[int, int]]:
+    """Per sweep direction of ``pose``: (pose index one step along it, how many steps
+    the bracket reaches below it (0 or 1), how many above (0 or 1)) as (other, code)."""
     if grid is None:
-        return [(pose - 1 if pose > 0 else None, pose + 1 if pose < size - 1 else None)]
-    nh, nr = grid
-    i, j = divmod(pose, nr)
-    heave = (pose - nr if i > 0 else None, pose + nr if i < nh - 1 else None)
-    roll = (pose - 1 if j > 0 else None, pose + 1 if j < nr - 1 else None)
-    return [heave, roll, heave, roll]
+        dims = [(pose, 1, size)]
+    else:
+        nh, nr = grid
+        i, j = divmod(pose, nr)
+        dims = [(i, nr, nh), (j, 1, nr)]
+    out = []
+    for index, stride, count in dims:
+        below, above = index > 0, index < count - 1
+        if above:
+            out.append((pose + stride, (1 if below else 0) * 2 + 1))
+        elif below:
+            out.append((pose - stride, 2))
+        else:
+            out.append((pose, 0))
+    return out
 
 
 def refine_pairs(
@@ -133,116 +143,103 @@ def refine_pairs(
 
     ``solids_at(kin, names)`` gives the moving solids ``names`` at the poses of ``kin``;
     ``fixed`` the fixed zones by name; ``grid`` the (heave, roll) shape of a grid sweep.
-    A request whose trial poses cannot be solved keeps its pose-``k`` figure.
+    A sweep whose trial poses cannot be solved keeps its pose-``k`` figures.
     """
     spec = result.spec
     params_all = np.asarray(spec.drive.parameters, dtype=float)
     size = params_all.shape[0]
     keys = list(spec.values)
     values_all = np.stack([np.asarray(spec.values[k], dtype=float) for k in keys], axis=1)
-    pose_all = result.solved.pose
-    kin_all = result.solved.kin
     n = len(requests)
     best_d = np.array([r.distance_mm for r in requests], dtype=float)
     best_pa = np.array([r.point_a for r in requests], dtype=float).reshape(n, 3)
     best_pb = np.array([r.point_b for r in requests], dtype=float).reshape(n, 3)
     base_k = np.array([r.pose for r in requests], dtype=np.intp)
-    base_p = params_all[base_k].copy()
-    base_v = values_all[base_k].copy()
+    best_v = values_all[base_k].copy()
     between = np.zeros(n, bool)
-    failed = np.zeros(n, bool)
     if n == 0 or size < 2:
-        return _collect(best_d, best_pa, best_pb, base_v, keys, between)
-    branch = design_branch(link, spec.drive)
+        return _collect(best_d, best_pa, best_pb, best_v, keys, between)
+
+    dims = 1 if grid is None else 2
+    per_dim = SAMPLES if dims == 1 else _GRID_SAMPLES
+    # per request and direction: parameter and value change per unit t, bracket in t
+    step_p = np.zeros((n, dims, params_all.shape[1]))
+    step_v = np.zeros((n, dims, len(keys)))
+    lo = np.zeros((n, dims))
+    hi = np.zeros((n, dims))
+    neighbours: list[list[int]] = []
+    for r, req in enumerate(requests):
+        near = []
+        for j, (other, code) in enumerate(_directions(req.pose, size, grid)):
+            if code == 0:
+                continue
+            sign = -1.0 if code == 2 else 1.0
+            step_p[r, j] = sign * (params_all[other] - params_all[req.pose])
+            step_v[r, j] = sign * (values_all[other] - values_all[req.pose])
+            lo[r, j] = -1.0 if code in (2, 3) else 0.0
+            hi[r, j] = 1.0 if code in (1, 3) else 0.0
+            near.append(other)
+            if code == 3:
+                near.append(2 * req.pose - other)
+        neighbours.append(near)
+
+    kin_all = result.solved.kin
     wanted = {name for r in requests for name in (r.a, r.b) if name not in fixed}
     points_all = {
         name: defining_points(solid) for name, solid in solids_at(kin_all, wanted).items()
     }
-    start_pose = pose_all.take(base_k)
-    start_tan = result.tangent[base_k]  # (n, nq, npar)
+    rate = np.array(
+        [
+            _motion_rate(req, points_all, near)
+            for req, near in zip(requests, neighbours, strict=True)
+        ]
+    )
+    branch = design_branch(link, spec.drive)
+    trials = per_dim**dims
+    start_pose = result.solved.pose.take(np.repeat(base_k, trials))
+    start_tan = np.repeat(result.tangent[base_k], trials, axis=0)  # (n*trials, nq, npar)
     start_par = params_all[base_k]
+    unit = np.linspace(0.0, 1.0, per_dim)
+    if dims == 1:
+        lattice = unit[:, None]
+    else:
+        lattice = np.stack(np.meshgrid(unit, unit, indexing="ij"), axis=-1).reshape(-1, 2)
 
-    def solid(name: str, moving: Mapping[str, Solid], r: int) -> Solid:
-        return take_pose(moving[name], slice(r, r + 1)) if name in moving else fixed[name]
-
-    def measure(params: Array, active: NDArray[np.bool_]) -> tuple[Array, Array, Array]:
-        drive = spec.drive.with_parameters(params)
-        guess = link.advance(start_pose, np.einsum("bqp,bp->bq", start_tan, params - start_par))
-        d = np.full(n, np.inf)
-        pa = np.zeros((n, 3))
-        pb = np.zeros((n, 3))
+    for _ in range(_MAX_ROUNDS):
+        spacing = (hi - lo) / (per_dim - 1)  # (n, dims)
+        if not np.any(rate * spacing.sum(axis=1) / 2.0 > tol_mm):
+            break
+        t = lo[:, None, :] + lattice[None] * (hi - lo)[:, None, :]  # (n, trials, dims)
+        params = start_par[:, None, :] + np.einsum("rtd,rdp->rtp", t, step_p)
+        flat = params.reshape(n * trials, -1)
+        guess = link.advance(
+            start_pose, np.einsum("bqp,bp->bq", start_tan, flat - np.repeat(start_par, trials, 0))
+        )
         try:
-            kin = solve_near(link, drive, guess, sweep_name=spec.name, branch=branch).kin
+            kin = solve_near(
+                link, spec.drive.with_parameters(flat), guess, sweep_name=spec.name, branch=branch
+            ).kin
         except AssemblyError:
-            failed[:] = True
-            return d, pa, pb
+            break  # keep what was found so far
         moving = solids_at(kin, wanted)
-        for r in (int(i) for i in np.flatnonzero(active & ~failed)):
-            req = requests[r]
-            sep = separation(solid(req.a, moving, r), solid(req.b, moving, r))
-            d[r] = float(np.asarray(sep.distance_mm).reshape(-1)[0])
-            pa[r] = np.asarray(sep.point_a).reshape(-1, 3)[0]
-            pb[r] = np.asarray(sep.point_b).reshape(-1, 3)[0]
-        return d, pa, pb
 
-    steps = max(len(_lines(0, size, grid)), 1)
-    for line in range(steps):
-        lo_t = np.zeros(n)
-        hi_t = np.zeros(n)
-        direction = np.zeros_like(base_p)
-        dvalue = np.zeros_like(base_v)
-        rate = np.zeros(n)
-        for r, req in enumerate(requests):
-            lower, upper = _lines(req.pose, size, grid)[line]
-            if lower is None and upper is None:
-                continue
-            other = upper if upper is not None else lower
-            assert other is not None
-            sign = 1.0 if upper is not None else -1.0
-            direction[r] = sign * (params_all[other] - params_all[req.pose])
-            dvalue[r] = sign * (values_all[other] - values_all[req.pose])
-            lo_t[r] = -1.0 if lower is not None else 0.0
-            hi_t[r] = 1.0 if upper is not None else 0.0
-            rate[r] = _motion_rate(req, points_all, [i for i in (lower, upper) if i is not None])
-        active = (hi_t > lo_t) & ~failed
-        if not active.any():
-            continue
-        width = hi_t - lo_t
-        need = np.ones(n, dtype=int)
-        ok = active & (rate * width > tol_mm)
-        need[ok] = np.ceil(np.log(tol_mm / (rate[ok] * width[ok])) / np.log(_GOLDEN)).astype(int)
-        iterations = int(min(max(int(need[active].max()), 1), _MAX_ITERATIONS))
-        p0, v0 = base_p.copy(), base_v.copy()
+        def block(name: str, r: int, moving: Mapping[str, Solid] = moving) -> Solid:
+            if name not in moving:
+                return fixed[name]
+            return take_pose(moving[name], slice(r * trials, (r + 1) * trials))
 
-        def at(t: Array, p0: Array = p0, direction: Array = direction) -> Array:
-            return p0 + t[:, None] * direction
-
-        a, b = lo_t.copy(), hi_t.copy()
-        c = b - _GOLDEN * (b - a)
-        d = a + _GOLDEN * (b - a)
-        fc, pac, pbc = measure(at(c), active)
-        fd, pad, pbd = measure(at(d), active)
-        trial = [(c.copy(), fc, pac, pbc), (d.copy(), fd, pad, pbd)]
-        for _ in range(iterations):
-            left = fc < fd
-            b = np.where(left, d, b)
-            a = np.where(left, a, c)
-            new_t = np.where(left, b - _GOLDEN * (b - a), a + _GOLDEN * (b - a))
-            f_new, pa_new, pb_new = measure(at(new_t), active)
-            trial.append((new_t.copy(), f_new, pa_new, pb_new))
-            c_next = np.where(left, new_t, d)
-            d_next = np.where(left, c, new_t)
-            fc, fd = np.where(left, f_new, fd), np.where(left, fc, f_new)
-            c, d = c_next, d_next
-        for t, f, pa, pb in trial:
-            better = active & ~failed & (f < best_d)
-            best_d[better] = f[better]
-            best_pa[better] = pa[better]
-            best_pb[better] = pb[better]
-            base_p[better] = p0[better] + t[better, None] * direction[better]
-            base_v[better] = v0[better] + t[better, None] * dvalue[better]
-            between |= better
-    return _collect(best_d, best_pa, best_pb, base_v, keys, between)
+        found = least_separations([(block(q.a, r), block(q.b, r)) for r, q in enumerate(requests)])
+        for r, least in enumerate(found):
+            at = t[r, least.pose_index]
+            if least.distance_mm < best_d[r]:
+                best_d[r] = least.distance_mm
+                best_pa[r], best_pb[r] = least.point_a, least.point_b
+                best_v[r] = values_all[base_k[r]] + at @ step_v[r]
+                between[r] = True
+            centre = at
+            lo[r] = np.maximum(lo[r], centre - spacing[r])
+            hi[r] = np.minimum(hi[r], centre + spacing[r])
+    return _collect(best_d, best_pa, best_pb, best_v, keys, between)
 
 
 def _motion_rate(req: Request, points: Mapping[str, np.ndarray], neighbours: list[int]) -> float:
@@ -250,7 +247,7 @@ def _motion_rate(req: Request, points: Mapping[str, np.ndarray], neighbours: lis
     neighbouring pose: a bound on how fast their distance changes per unit parameter."""
     travel = 0.0
     for name in (req.a, req.b):
-        if name not in points:
+        if name not in points or not neighbours:
             continue
         pts = points[name]
         step = pts[neighbours] - pts[req.pose][None]

@@ -12,6 +12,7 @@ import os
 import signal
 import sys
 import threading
+import warnings
 from collections.abc import Sequence
 
 from plumbrod import __version__
@@ -77,7 +78,11 @@ def main(argv: Sequence[str] | None = None) -> int:
     if threading.current_thread() is threading.main_thread():
         previous = signal.signal(signal.SIGTERM, _stop_on_sigterm)
     try:
-        code = int(handler(args))
+        with warnings.catch_warnings():
+            # numeric warnings are not for the user: a figure that comes out NaN or
+            # infinite is reported as one line (dumps_finite, FigureError) instead
+            warnings.simplefilter("ignore", RuntimeWarning)
+            code = int(handler(args))
         sys.stdout.flush()  # a full disk or /dev/full shows here, not at exit
         return code
     except BrokenPipeError:
