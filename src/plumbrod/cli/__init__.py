@@ -15,6 +15,7 @@ COMMAND_MODULES: tuple[str, ...] = (
     "column",
     "size",
     "export",
+    "tradeoff",
     "new",
     "demo",
 )
