@@ -8,6 +8,7 @@ rate each needs, the element's height, tyre-load variation, body acceleration, t
 from __future__ import annotations
 
 import argparse
+import os
 import sys
 from pathlib import Path
 from typing import Any
@@ -69,7 +70,7 @@ def run(args: argparse.Namespace) -> int:
     analysis = analyse(design)
     study = study_tradeoff(analysis, mass_report(analysis))
     text = study_text(study)
-    files: dict[str, str] = {}
+    files: dict[str | os.PathLike[str], str | bytes] = {}
     if args.json and args.json != "-":
         files[args.json] = study_json(study)
     if args.csv:

@@ -37,7 +37,7 @@ __all__ = ["ROAD_CLASSES", "TRADEOFF_KEYS", "TradeoffSpec", "read_tradeoff"]
 ROAD_CLASSES = ("A", "B", "C", "D", "E", "F", "G", "H")
 """The ISO 8608 classes."""
 
-DEFAULT_ROAD_CLASSES = ("A", "B", "C", "D", "E")
+DEFAULT_ROAD_CLASSES: tuple[str, ...] = ("A", "B", "C", "D", "E")
 DEFAULT_SPEED_STEPS = 12
 
 TRADEOFF_KEYS = (
@@ -180,7 +180,7 @@ def read_tradeoff(table: Any, r: _Reader) -> TradeoffSpec | None:
             "sprung_mass_front_share",
         )
 
-    classes = DEFAULT_ROAD_CLASSES
+    classes: tuple[str, ...] = DEFAULT_ROAD_CLASSES
     if "road_classes" in t:
         raw = t["road_classes"]
         if not isinstance(raw, list) or not raw:

@@ -10,6 +10,7 @@
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
@@ -24,7 +25,10 @@ if TYPE_CHECKING:
 
 __all__ = ["plot_study", "plot_trace"]
 
-_STYLE = {"bolted": {"linestyle": "--", "color": "C3"}, "routed": {"linestyle": "-", "color": "C0"}}
+_STYLE: dict[str, dict[str, Any]] = {
+    "bolted": {"linestyle": "--", "color": "C3"},
+    "routed": {"linestyle": "-", "color": "C0"},
+}
 _PANELS = (
     ("element_height_rms_mm", "element height above road, RMS (mm)"),
     ("tyre_load_ratio", "dynamic tyre load RMS / static"),
@@ -112,10 +116,15 @@ def plot_study(study: TradeoffStudy, folder: str | Path, stem: str) -> list[Path
             "(idealised linear quarter car)"
         )
         path = folder / f"{stem}-tradeoff-{name}.png"
-        written.append(
-            write_with(path, lambda tmp, f=figure: f.savefig(tmp, format="png", dpi=100))
-        )
+        written.append(write_with(path, _saver(figure)))
     return written
+
+
+def _saver(figure: Any) -> Callable[[Path], None]:
+    def save(tmp: Path) -> None:
+        figure.savefig(tmp, format="png", dpi=100)
+
+    return save
 
 
 def _wrap(text: str, width: int) -> list[str]:
@@ -164,4 +173,4 @@ def plot_trace(study: TradeoffStudy, folder: str | Path, stem: str, seed: int = 
         ax.grid(True, color="0.9")
     figure.suptitle(f"{study.design}: road and tyre load (idealised linear quarter car)")
     path = Path(folder) / f"{stem}-tradeoff-trace.png"
-    return [write_with(path, lambda tmp: figure.savefig(tmp, format="png", dpi=100))]
+    return [write_with(path, _saver(figure))]

@@ -129,9 +129,9 @@ def study_csv(study: TradeoffStudy) -> str:
     for cls in study.road_classes:
         for i, speed in enumerate(study.speeds_kmh):
             row: list[str] = [cls, f"{speed:.6g}"]
-            for axle in study.axles.values():
+            for study_axle in study.axles.values():
                 for case in CASES:
-                    c = axle.cases[case]
+                    c = study_axle.cases[case]
                     values = [c.wheel_rate_N_per_mm, c.ride_height_drop_mm[i], c.element_drop_mm[i]]
                     values += [c.classes[cls][f][i] for f in FIGURES]
                     row += ["" if not math.isfinite(v) else f"{v:.6g}" for v in values]
