@@ -162,11 +162,11 @@ def read_zones(s: BuildState, table: Any) -> list[Zone]:
             )
             params["centre_mm"] = r.zone_point(ztable["centre_mm"], f"{key}.centre_mm")
             size = r.numbers(ztable["size_mm"], f"{key}.size_mm", 3, "[lx, ly, lz] in mm")
-            for i, s in enumerate(size):
-                if s <= 0:
+            for i, length in enumerate(size):
+                if length <= 0:
                     r.fail(
                         f"{key}.size_mm[{i}]",
-                        f"expected a positive size, got {s}",
+                        f"expected a positive size, got {length}",
                         "give the box's full length along each axis",
                     )
             params["size_mm"] = size

@@ -3,7 +3,7 @@
 
 from __future__ import annotations
 
-from typing import Any
+from typing import Any, cast
 
 from plumbrod.design.build_bodies import read_chassis, read_corners, read_rockers
 from plumbrod.design.build_members import read_elements, read_rods
@@ -16,7 +16,7 @@ from plumbrod.design.build_setup import (
 )
 from plumbrod.design.crosscheck import check_geometry, check_references
 from plumbrod.design.mirror import mirrored
-from plumbrod.design.model import Design
+from plumbrod.design.model import Design, Plane
 from plumbrod.design.reader import BuildState
 from plumbrod.design.tradeoff_spec import read_tradeoff
 
@@ -49,9 +49,10 @@ def build_design(data: dict[str, Any], source: str) -> Design:
     )
     name = r.string(head["name"], "design.name")
     note = r.string(head.get("note", ""), "design.note")
-    plane = None
+    plane: Plane | None = None
     if "plane" in head:
-        plane = r.string(head["plane"], "design.plane", ("front", "side"))
+        # string() has checked that the value is one of the choices
+        plane = cast(Plane, r.string(head["plane"], "design.plane", ("front", "side")))
     mirror = r.boolean(head.get("mirror", False), "design.mirror")
     top_speed = None
     if "top_speed_kmh" in head:
