@@ -58,6 +58,7 @@ TOP_LEVEL_KEYS = (
     "load_cases",
     "materials",
     "zones",
+    "tune",
 )
 
 _TOML_TYPE_NAMES = {
