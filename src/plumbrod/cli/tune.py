@@ -6,6 +6,7 @@ from __future__ import annotations
 import argparse
 import sys
 from pathlib import Path
+from collections.abc import Sequence
 from typing import Any
 
 from plumbrod.outputs.cautions import CAUTION
@@ -156,7 +157,7 @@ def run(args: argparse.Namespace) -> int:
 
 
 def _table(spec: Any, x: Any, before: Any, after: Any) -> None:
-    rows = [("variable", "from", "to", "bounds")]
+    rows: list[tuple[str, ...]] = [("variable", "from", "to", "bounds")]
     for var, value in zip(spec.variables, x, strict=True):
         rows.append((var.name, "0", f"{value:+.3f} mm", f"[{var.low:g}, {var.high:g}]"))
     _print(rows)
@@ -189,7 +190,7 @@ def _limit(check: Any) -> str:
     return (">= " if check.at_least else "<= ") + f"{check.limit:g}"
 
 
-def _print(rows: list[tuple[str, ...]]) -> None:
+def _print(rows: Sequence[tuple[str, ...]]) -> None:
     widths = [max(len(r[i]) for r in rows) for i in range(len(rows[0]))]
     for r in rows:
         print("  ".join(r[i].ljust(widths[i]) for i in range(len(r))).rstrip())
