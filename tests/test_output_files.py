@@ -91,6 +91,25 @@ def test_no_command_writes_onto_its_input_design(
     assert _digest(design) == before
 
 
+@pytest.mark.parametrize(
+    "args, option, source",
+    [
+        (("tradeoff", "d.toml", "--csv", "d.toml"), "--csv", "hillclimb_splitter.toml"),
+        (("tradeoff", "d.toml", "--json", "d.toml"), "--json", "hillclimb_splitter.toml"),
+        (("tradeoff", "d.toml", "-o", "d.toml"), "--output", "hillclimb_splitter.toml"),
+        (("tune", "d.toml", "-o", "d.toml"), "--output", "tune_splitter.toml"),
+    ],
+)
+def test_tradeoff_and_tune_refuse_their_input_too(
+    tmp_path: Path, args: tuple[str, ...], option: str, source: str
+) -> None:
+    design = tmp_path / "d.toml"
+    design.write_bytes((ROOT / "examples" / source).read_bytes())
+    done = _run(*args, cwd=tmp_path)
+    _one_line_error(done, option)
+    assert design.read_bytes() == (ROOT / "examples" / source).read_bytes()
+
+
 def test_a_link_or_hard_link_to_the_input_is_the_input(design: Path) -> None:
     (design.parent / "soft.toml").symlink_to("d.toml")
     os.link(design, design.parent / "hard.toml")

@@ -60,12 +60,18 @@ def run(args: argparse.Namespace) -> int:
     from plumbrod.errors import UsageError
     from plumbrod.mechanics.analysis import analyse
     from plumbrod.mechanics.mass import mass_report
-    from plumbrod.outputs.atomic import write_many
+    from plumbrod.outputs.atomic import OutputSet, check_folder, check_target
     from plumbrod.outputs.tradeoff_report import study_csv, study_json, study_text
     from plumbrod.verdict.tradeoff import study_tradeoff
 
     if args.trace and not args.plots:
         raise UsageError("--trace", "needs --plots DIR", "add --plots DIR to say where")
+    options = (("--json", args.json), ("--csv", args.csv), ("--output", args.output))
+    for option, value in options:
+        if value and value != "-":  # refuse a bad path before the work
+            check_target(value, option=option, inputs=[args.design])
+    if args.plots:
+        check_folder(args.plots, option="--plots")
     design = load_design(args.design)
     analysis = analyse(design)
     study = study_tradeoff(analysis, mass_report(analysis))
@@ -77,7 +83,10 @@ def run(args: argparse.Namespace) -> int:
         files[args.csv] = study_csv(study)
     if args.output:
         files[args.output] = text
-    written = [str(p) for p in write_many(files)] if files else []
+    with OutputSet(inputs=[args.design]) as out:
+        for path, data in files.items():
+            out.add(path, data)
+    written = [str(p) for p in out.written]
     if args.plots:
         from plumbrod.outputs.tradeoff_plots import plot_study, plot_trace
 

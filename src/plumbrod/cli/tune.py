@@ -88,7 +88,7 @@ def run(args: argparse.Namespace) -> int:
     from plumbrod.design.tune_spec import read_tune
     from plumbrod.errors import UsageError
     from plumbrod.kinematics.build import build_linkage
-    from plumbrod.outputs.atomic import write_atomic
+    from plumbrod.outputs.atomic import check_target, write_atomic
     from plumbrod.revise.candidates import Screening
     from plumbrod.revise.text_edit import move_points
     from plumbrod.revise.tuning import tune
@@ -105,6 +105,7 @@ def run(args: argparse.Namespace) -> int:
     target = Path(args.output) if args.output else _free_name(source)
     if target.resolve() == source.resolve():
         raise UsageError("--output", "would overwrite the input design", "give another file name")
+    check_target(target, option="--output", inputs=[source])
     before = review(design)
     live = sys.stderr.isatty()
     result = tune(
@@ -139,7 +140,7 @@ def run(args: argparse.Namespace) -> int:
             break
     assert chosen is not None
     x, new_text, after = chosen
-    write_atomic(target, new_text)
+    write_atomic(target, new_text, option="--output", inputs=[source])
     _table(spec, x, before, after)
     print(
         f"search: {result.generations} generations, {result.evaluations:,} candidates screened "
