@@ -133,3 +133,27 @@ def test_the_json_report_carries_the_refined_figure(tmp_path: Path) -> None:
     assert pair["distance_mm"] == pytest.approx(GAP_MM, abs=0.01)
     assert pair["pose_distance_mm"] > GAP_MM + 0.3
     assert 10.0 < pair["driver"]["travel_mm"] < 20.0
+
+
+def test_on_a_grid_sweep_the_search_is_at_least_as_close_as_a_fine_grid() -> None:
+    text = (ROOT / "examples" / "hillclimb_splitter.toml").read_text()
+    coarse_text = text.replace(
+        "[sweeps.heave_roll]\nsteps = [41, 41]", "[sweeps.heave_roll]\nsteps = [5, 5]"
+    )
+    fine_text = text.replace(
+        "[sweeps.heave_roll]\nsteps = [41, 41]", "[sweeps.heave_roll]\nsteps = [81, 81]"
+    )
+    coarse = clearance_report(analyse(parse_design(coarse_text, "coarse.toml")))
+    fine = clearance_report(analyse(parse_design(fine_text, "fine.toml")), between_poses=False)
+    checked = 0
+    for pair in coarse.pairs:
+        if pair.sweep != "heave_roll" or not pair.between_poses:
+            continue
+        other = next(p for p in fine.pairs if (p.a, p.b) == (pair.a, pair.b))
+        if other.sweep != "heave_roll":
+            continue
+        # searched between the 5 x 5 poses: never further than the 81 x 81 poses show
+        assert pair.distance_mm <= other.distance_mm + 0.01
+        assert pair.distance_mm <= pair.pose_distance_mm
+        checked += 1
+    assert checked > 0

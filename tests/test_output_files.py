@@ -185,6 +185,22 @@ def test_all_sweeps_disabled_is_one_line(tmp_path: Path) -> None:
         _one_line_error(done, "none.toml", "sweeps", "disabled")
 
 
+def test_no_numeric_warnings_before_the_message(tmp_path: Path) -> None:
+    # a motion centre 1e300 mm away makes the solver's arithmetic overflow: the user sees
+    # one line (the linkage does not assemble, or the value is out of range), no warnings
+    source = ROOT / "examples" / "student_rear_wing.toml"
+    text = source.read_text()
+    assert "motion_centre_mm = [-1550.0, 0.0, 0.0]" in text
+    text = text.replace(
+        "motion_centre_mm = [-1550.0, 0.0, 0.0]", "motion_centre_mm = [-1550.0, 1e300, 0.0]"
+    )
+    (tmp_path / "far.toml").write_text(text)
+    done = _run("check", "far.toml", cwd=tmp_path)
+    assert done.returncode in (1, 2), done.stderr
+    assert "Warning" not in done.stderr and "Traceback" not in done.stderr
+    assert len(done.stderr.strip().splitlines()) == 1, done.stderr
+
+
 def test_standard_output_on_a_full_device_is_one_line(design: Path) -> None:
     with open("/dev/full", "w") as full:
         done = subprocess.run(

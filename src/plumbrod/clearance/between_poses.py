@@ -63,13 +63,15 @@ class Request:
 class Refined:
     """The least distance of a pair between the poses: ``distance_mm`` (mm) at the
     driver ``values`` (the sweep's report keys, e.g. ``travel_mm``), its closest points,
-    and ``between`` (False when no trial value came closer than pose ``k`` itself)."""
+    ``between`` (False when no trial value came closer than pose ``k`` itself) and
+    ``searched`` (False when the trial poses could not be solved: pose ``k``'s figure)."""
 
     distance_mm: float
     point_a: Array
     point_b: Array
     values: dict[str, float]
     between: bool
+    searched: bool = True
 
 
 def take_pose(solid: Solid, index: int | slice) -> Solid:
@@ -158,7 +160,7 @@ def refine_pairs(
     best_v = values_all[base_k].copy()
     between = np.zeros(n, bool)
     if n == 0 or size < 2:
-        return _collect(best_d, best_pa, best_pb, best_v, keys, between)
+        return _collect(best_d, best_pa, best_pb, best_v, keys, between, searched=False)
 
     dims = 1 if grid is None else 2
     per_dim = SAMPLES if dims == 1 else _GRID_SAMPLES
@@ -205,6 +207,7 @@ def refine_pairs(
     else:
         lattice = np.stack(np.meshgrid(unit, unit, indexing="ij"), axis=-1).reshape(-1, 2)
 
+    searched = True
     for _ in range(_MAX_ROUNDS):
         spacing = (hi - lo) / (per_dim - 1)  # (n, dims)
         if not np.any(rate * spacing.sum(axis=1) / 2.0 > tol_mm):
@@ -220,7 +223,8 @@ def refine_pairs(
                 link, spec.drive.with_parameters(flat), guess, sweep_name=spec.name, branch=branch
             ).kin
         except AssemblyError:
-            break  # keep what was found so far
+            searched = False  # keep what was found so far
+            break
         moving = solids_at(kin, wanted)
 
         def block(name: str, r: int, moving: Mapping[str, Solid] = moving) -> Solid:
@@ -239,7 +243,7 @@ def refine_pairs(
             centre = at
             lo[r] = np.maximum(lo[r], centre - spacing[r])
             hi[r] = np.minimum(hi[r], centre + spacing[r])
-    return _collect(best_d, best_pa, best_pb, best_v, keys, between)
+    return _collect(best_d, best_pa, best_pb, best_v, keys, between, searched=searched)
 
 
 def _motion_rate(req: Request, points: Mapping[str, np.ndarray], neighbours: list[int]) -> float:
@@ -256,7 +260,14 @@ def _motion_rate(req: Request, points: Mapping[str, np.ndarray], neighbours: lis
 
 
 def _collect(
-    d: Array, pa: Array, pb: Array, values: Array, keys: list[str], between: NDArray[np.bool_]
+    d: Array,
+    pa: Array,
+    pb: Array,
+    values: Array,
+    keys: list[str],
+    between: NDArray[np.bool_],
+    *,
+    searched: bool,
 ) -> list[Refined]:
     return [
         Refined(
@@ -265,6 +276,7 @@ def _collect(
             pb[r].copy(),
             {k: float(values[r, i]) for i, k in enumerate(keys)},
             bool(between[r]),
+            searched,
         )
         for r in range(len(d))
     ]

@@ -310,7 +310,7 @@ def clearance_report(analysis: Analysis, *, between_poses: bool = True) -> Clear
                 _vec3(pa),
                 _vec3(pb),
                 pose_distance_mm=found[i][2],
-                between_poses=between or i in refined,
+                between_poses=between or (i in refined and refined[i].searched),
                 driver=driver,
             )
         out.append(pair)
