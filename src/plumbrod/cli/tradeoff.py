@@ -83,10 +83,10 @@ def run(args: argparse.Namespace) -> int:
         files[args.csv] = study_csv(study)
     if args.output:
         files[args.output] = text
-    with OutputSet(inputs=[args.design]) as out:
+    with OutputSet(inputs=[args.design]) as staged:
         for path, data in files.items():
-            out.add(path, data)
-    written = [str(p) for p in out.written]
+            staged.add(path, data)
+    written = [str(p) for p in staged.written]
     if args.plots:
         from plumbrod.outputs.tradeoff_plots import plot_study, plot_trace
 
