@@ -104,3 +104,9 @@ def test_suspension_solved_once_matches_the_whole_batch() -> None:
 def test_no_split_when_a_suspension_point_moves() -> None:
     link, _ = _designs(1, 0.0)
     assert reduce_linkage(link, np.array([link.point("front_left.upright.tie_rod_outer")])) is None
+
+
+def test_no_split_for_a_rocker_pivoted_on_a_wishbone() -> None:
+    text = EXAMPLE.read_text().replace('parent = "chassis"', 'parent = "front_left.upper"', 1)
+    link = build_linkage(parse_design(text, "rocker on the upper wishbone"))
+    assert reduce_linkage(link, np.array([link.point("rocker_left.front_arm")])) is None

@@ -147,6 +147,8 @@ def _table(spec: Any, x: Any, before: Any, after: Any) -> None:
     rows = [("check", "before", "", "after", "", "limit")]
     for b, a in zip(before.checks, after.checks, strict=True):
         rows.append((b.id, b.status, _value(b), a.status, _value(a), _limit(a)))
+    for name, span_b, span_a in _ratio_spans(before, after):
+        rows.append((f"route ratio {name}", "", span_b, "", span_a, "min to max"))
     rows.append(
         (
             "route mass",
@@ -158,6 +160,17 @@ def _table(spec: Any, x: Any, before: Any, after: Any) -> None:
         )
     )
     _print(rows)
+
+
+def _ratio_spans(before: Any, after: Any) -> list[tuple[str, str, str]]:
+    def spans(findings: Any) -> dict[str, str]:
+        travel = findings.analysis.figures.get("travel")
+        if travel is None:
+            return {}
+        return {k: f"{v.min():.4f} to {v.max():.4f}" for k, v in travel.route_ratio.items()}
+
+    b, a = spans(before), spans(after)
+    return [(name, b[name], a.get(name, "-")) for name in b]
 
 
 def _value(check: Any) -> str:

@@ -17,7 +17,8 @@ the Newton step.  The tangent of the route block follows from the carriers' velo
 every figure and the statics read it as they read a solved sweep.
 
 :func:`reduce_linkage` returns None when the split does not apply (a moved point on a
-suspension row, a ball joint in the route, a non-square route block); callers then use
+suspension row, a ball joint in the route, a rocker pivoted on a corner body, a
+non-square route block); callers then use
 :func:`plumbrod.kinematics.design_grid.solve_grid`.
 """
 
@@ -153,7 +154,10 @@ def reduce_linkage(link: Linkage, moved: NDArray[np.intp]) -> Reduction | None:
         elements=carrier_elements + elements,
         pickups=pickups,
     )
-    route = build_linkage(sub_design)
+    try:
+        route = build_linkage(sub_design)
+    except ValueError:  # a rocker hung from a corner body: its carrier comes too late
+        return None
     if route.n_rows != route.n_coords - len(carriers) * route.free_basis.shape[1]:
         return None
     # the route linkage's body order: chassis, rockers, carriers, elements
