@@ -17,6 +17,7 @@ from collections.abc import Iterable
 from pathlib import Path
 from typing import Any, NoReturn
 
+from plumbrod.design.car import car_layout, read_car, with_default_motion_centre
 from plumbrod.design.model import (
     CHASSIS,
     PLANE_NORMAL_AXIS,
@@ -58,6 +59,7 @@ TOP_LEVEL_KEYS = (
     "load_cases",
     "materials",
     "zones",
+    "car",
 )
 
 _TOML_TYPE_NAMES = {
@@ -412,6 +414,7 @@ class _DesignBuilder:
         materials = self._materials(data.get("materials", {}))
         load_cases = self._load_cases(data.get("load_cases", {}), elements)
         zones = self._zones(data.get("zones", {}))
+        car = read_car(r, data.get("car", {}))
 
         design = Design(
             name=name,
@@ -429,12 +432,15 @@ class _DesignBuilder:
             zones=tuple(zones),
             note=note,
             top_speed_kmh=top_speed,
+            car=car,
+            motion_centre_given="motion_centre_mm" in data.get("sweeps", {}),
         )
         if mirror:
             design = _mirrored(design, self.r, self.pickup_where)
         self._check_references(design, mirror)
         self._check_geometry(design, mirror)
-        return design
+        car_layout(design)  # the corners make a two-axle car that agrees with [car]
+        return with_default_motion_centre(design)
 
     # -- pickups ----------------------------------------------------------------
     def _add_pickups(self, body: str, table: Any, key: str) -> None:
