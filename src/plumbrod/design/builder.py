@@ -32,6 +32,7 @@ TOP_LEVEL_KEYS = (
     "load_cases",
     "materials",
     "zones",
+    "tune",
     "car",
 )
 

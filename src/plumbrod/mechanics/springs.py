@@ -226,7 +226,8 @@ def _virtual_work_split(q: Array, refs: Array, layout: CarLayout) -> Array:
         return out
     x = np.array([xs[a] for a in axle_of])
     two_per_axle = n_s == 4
-    if two_per_axle and (layout.front.track_mm is None or layout.rear.track_mm is None):
+    track_f, track_r = layout.front.track_mm or 0.0, layout.rear.track_mm or 0.0
+    if two_per_axle and not (track_f > 0.0 and track_r > 0.0):
         return out
     rho = layout.roll_front_share
     for e in range(refs.shape[0]):
@@ -235,8 +236,8 @@ def _virtual_work_split(q: Array, refs: Array, layout: CarLayout) -> Array:
         if two_per_axle:
             rows.insert(1, ys - refs[e, 1])
             rhs.insert(1, -q[:, :, e, 1] * 1000.0)
-            cf = np.array([1.0, -1.0, 0.0, 0.0]) * layout.front.track_mm / 2.0  # type: ignore[operator]
-            cr = np.array([0.0, 0.0, 1.0, -1.0]) * layout.rear.track_mm / 2.0  # type: ignore[operator]
+            cf = np.array([1.0, -1.0, 0.0, 0.0]) * track_f / 2.0
+            cr = np.array([0.0, 0.0, 1.0, -1.0]) * track_r / 2.0
             rows.append((1.0 - rho) * cf - rho * cr)
             rhs.append(np.zeros_like(q[:, :, e, 0]))
         a = np.array(rows)
@@ -421,7 +422,8 @@ def spring_loads(
     per_element: dict[str, ElementSprings] = {}
     everything = {**per_sweep, DESIGN_POSE: at_design}
     for e, element in enumerate(design.elements):
-        best = {"share": -1.0, "bolted": -1.0, "floor": -1.0, "avoid": (-1.0, ("", 0, 0, 0))}
+        best = {"share": -1.0, "bolted": -1.0, "floor": -1.0}
+        avoid, where = -1.0, ("", 0, 0, 0)
         load_max = 0.0
         for name, s in everything.items():
             load = np.abs(s.vertical_load_N[:, :, e])  # (B, K)
@@ -434,27 +436,24 @@ def spring_loads(
             ):
                 ratio = np.abs(arr[:, :, e]) / safe
                 if not np.all(np.isnan(ratio)):
-                    best[key] = max(best[key], float(np.nanmax(ratio)))  # type: ignore[call-overload]
+                    best[key] = max(best[key], float(np.nanmax(ratio)))
             ratio = np.abs(s.avoidable_N[:, :, e]) / safe
             ratio = np.where(np.isnan(ratio), -1.0, ratio)
             b, kk, a = np.unravel_index(int(np.argmax(ratio)), ratio.shape)
-            if ratio[b, kk, a] > best["avoid"][0]:  # type: ignore[index]
-                best["avoid"] = (float(ratio[b, kk, a]), (name, int(b), int(kk), int(a)))
+            if ratio[b, kk, a] > avoid:
+                avoid, where = float(ratio[b, kk, a]), (name, int(b), int(kk), int(a))
         lever = None
         if len(landed[e]) == 1:
             load0 = at_design.vertical_load_N[0, 0, e]
             if abs(load0) > _TINY_N:
                 lever = float(-at_design.floor_moment_Nm[0, 0, e] * 1000.0 / load0)
         vertical_lever, drag_height = _levers(loads, layout, landed[e], e)
-        avoid, where = best["avoid"]  # type: ignore[misc]
         per_element[element.name] = ElementSprings(
             element=element.name,
             axles=tuple(layout.axles[a].name for a in landed[e]),
-            share=None if best["share"] < 0 else best["share"],  # type: ignore[operator]
-            share_bolted=None if best["bolted"] < 0 else best["bolted"],  # type: ignore[operator]
-            floor=(0.0 if len(landed[e]) > 1 else None)
-            if best["floor"] < 0  # type: ignore[operator]
-            else best["floor"],
+            share=None if best["share"] < 0 else best["share"],
+            share_bolted=None if best["bolted"] < 0 else best["bolted"],
+            floor=(0.0 if len(landed[e]) > 1 else None) if best["floor"] < 0 else best["floor"],
             avoidable=max(avoid, 0.0),
             avoidable_where=where,
             load_N=load_max,

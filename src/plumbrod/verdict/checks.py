@@ -117,11 +117,11 @@ def check_route_ratio(analysis: Analysis) -> CheckResult:
         lines.append(f"{name}: {ratio.min():.4f} to {ratio.max():.4f}")
         if used[i] > worst[0]:
             worst = (float(used[i]), name, i, float(ratio[i]))
-    used, name, i, value = worst
+    use, name, i, value = worst
     return CheckResult(
         "route-ratio",
         title,
-        status_of(used),
+        status_of(use),
         value,
         (lo, hi),
         "mm/mm",
@@ -211,11 +211,11 @@ def check_transmission(analysis: Analysis) -> CheckResult:
             "no rod ends on hinged bodies",
             "",
         )
-    used, value, (rod, body), sweep, i = worst
+    use, value, (rod, body), sweep, i = worst
     return CheckResult(
         "transmission-angle",
         title,
-        status_of(used),
+        status_of(use),
         value,
         (lo, hi),
         "deg",
@@ -348,18 +348,20 @@ def check_member_force(analysis: Analysis) -> CheckResult:
             at(largest) if largest[1] else "no force",
             "; ".join(detail),
         )
-    used, rod, sweep, b, k, rating = worst_rated
-    j = names.index(rod)
-    force = float(analysis.statics[sweep].rod_force_N[b, k, index[j]])
-    detail.append(f"highest use of a rod-end rating {used:.0%} (rod '{rod}', rated {rating:g} N)")
+    use, rod_name, sweep, pose_index, case_index, rating = worst_rated
+    j = names.index(rod_name)
+    force = float(analysis.statics[sweep].rod_force_N[pose_index, case_index, index[j]])
+    detail.append(
+        f"highest use of a rod-end rating {use:.0%} (rod '{rod_name}', rated {rating:g} N)"
+    )
     return CheckResult(
         "member-force",
         title,
-        status_of(used),
+        status_of(use),
         force,
         rating,
         "N",
-        at((force, rod, sweep, b, k)),
+        at((force, rod_name, sweep, pose_index, case_index)),
         "; ".join(detail),
     )
 
@@ -399,8 +401,7 @@ def check_sprung_leakage(analysis: Analysis) -> CheckResult:
         for es in springs.per_element.values()
     ]
     detail = " ".join([*sentences, agree[0].upper() + agree[1:]])
-    st = analysis.statics.get(sweep)
-    if st is not None and st.elastic:
+    if any(st.elastic for st in analysis.statics.values()):
         detail += "; over-constrained: forces from the elastic solution (they depend on EA/L)"
     pose = "the design pose" if sweep not in analysis.sweeps else f"{_pose(analysis, sweep, b)}"
     axle = springs.layout.axles[a].name
@@ -427,10 +428,10 @@ def _reserve_check(
     if not analysis.statics:
         return replace(_no_loads(check_id, title, required, ""), at_least=True)
     worst: tuple[float, RodReserve | None] = (np.inf, None)
-    for reserve in reserves.values():
-        rf = reserve.buckling_rf if kind == "buckling" else reserve.tension_rf
+    for candidate in reserves.values():
+        rf = candidate.buckling_rf if kind == "buckling" else candidate.tension_rf
         if rf < worst[0]:
-            worst = (rf, reserve)
+            worst = (rf, candidate)
     rf, reserve = worst
     if reserve is None:
         none = "no rod is in compression" if kind == "buckling" else "no rod is in tension"
