@@ -19,6 +19,7 @@ from plumbrod.design.crosscheck import check_geometry, check_references
 from plumbrod.design.mirror import mirrored
 from plumbrod.design.model import Design, Plane
 from plumbrod.design.reader import BuildState
+from plumbrod.design.tradeoff_spec import read_tradeoff
 
 TOP_LEVEL_KEYS = (
     "design",
@@ -34,6 +35,7 @@ TOP_LEVEL_KEYS = (
     "zones",
     "tune",
     "car",
+    "tradeoff",
 )
 
 
@@ -77,6 +79,7 @@ def build_design(data: dict[str, Any], source: str) -> Design:
     load_cases = read_load_cases(s, data.get("load_cases", {}), elements)
     zones = read_zones(s, data.get("zones", {}))
     car = read_car(r, data.get("car", {}))
+    tradeoff = read_tradeoff(data.get("tradeoff"), r)
 
     design = Design(
         name=name,
@@ -96,6 +99,7 @@ def build_design(data: dict[str, Any], source: str) -> Design:
         top_speed_kmh=top_speed,
         car=car,
         motion_centre_given="motion_centre_mm" in data.get("sweeps", {}),
+        tradeoff=tradeoff,
     )
     if mirror:
         design = mirrored(design, r, s.pickup_where)

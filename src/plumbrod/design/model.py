@@ -14,6 +14,8 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Literal
 
+from plumbrod.design.tradeoff_spec import TradeoffSpec
+
 __all__ = [
     "CHASSIS",
     "AeroData",
@@ -311,6 +313,8 @@ class Design:
     car: Car = field(default_factory=Car)
     motion_centre_given: bool = True
     """False when ``[sweeps] motion_centre_mm`` took its default."""
+    tradeoff: TradeoffSpec | None = None
+    """The ride study's inputs (``[tradeoff]``), when the design has them."""
 
     def corner(self, name: str) -> Corner:
         """The corner called ``name``."""
