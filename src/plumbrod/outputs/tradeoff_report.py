@@ -63,6 +63,7 @@ def _case_json(case: CaseStudy, first: str) -> dict[str, Any]:
         "sprung_mass_kg": case.sprung_mass_kg,
         "unsprung_mass_kg": case.unsprung_mass_kg,
         "damper_N_s_per_mm": case.damper_N_s_per_mm,
+        "element_follows_wheel": case.follows_wheel,
         "body_frequency_Hz": case.body_frequency_Hz,
         "wheel_hop_frequency_Hz": case.wheel_hop_frequency_Hz,
         "sprung_aero_load_top_speed_N": case.sprung_load_N,
@@ -159,7 +160,7 @@ def _axle_text(axle: AxleStudy, study: TradeoffStudy) -> list[str]:
         lines.append(f"  {label:34}{show(vb):>12}{show(vr):>12}")
 
     row("wheel rate, N/mm", "{:.1f}", b.wheel_rate_N_per_mm, r.wheel_rate_N_per_mm)
-    lines.append(f"  {'  set by':34}{b.rate_from:>12}{r.rate_from:>12}")
+    lines.append(f"    (set by: bolted {b.rate_from}, routed {r.rate_from})")
     row("damper at the wheel, N·s/mm", "{:.2f}", b.damper_N_s_per_mm, r.damper_N_s_per_mm)
     row("sprung / unsprung mass, kg", "{:.1f}", b.sprung_mass_kg, r.sprung_mass_kg)
     row("", "{:.1f}", b.unsprung_mass_kg, r.unsprung_mass_kg)
@@ -175,6 +176,7 @@ def _axle_text(axle: AxleStudy, study: TradeoffStudy) -> list[str]:
         r.ride_height_drop_mm[top],
     )
     row("element drop, mm", "{:.2f}", b.element_drop_mm[top], r.element_drop_mm[top])
+    row("element follows the wheel by", "{:.2f}", b.follows_wheel, r.follows_wheel)
     for cls in study.road_classes:
         lines.append(f"  class {cls} road, at {speed:.0f} km/h:")
         for key, label, fmt in _SHOWN:

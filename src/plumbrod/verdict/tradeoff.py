@@ -26,6 +26,7 @@ from plumbrod.design.model import Design, LoadCase
 from plumbrod.design.tradeoff_spec import TradeoffSpec
 from plumbrod.errors import DesignFileError
 from plumbrod.kinematics.drives import TravelDrive
+from plumbrod.kinematics.figures import route_ratios
 from plumbrod.kinematics.sweeps import SweepSpec, run_sweep
 from plumbrod.mechanics.analysis import Analysis
 from plumbrod.mechanics.loads import STANDARD_GRAVITY_M_S2, applied_loads
@@ -34,6 +35,7 @@ from plumbrod.mechanics.ride import (
     QuarterCar,
     Unstable,
     band_limited_mean_squares,
+    combined_mean_square,
     gaussian_exceedance,
     mean_squares,
     natural_frequencies_Hz,
@@ -89,6 +91,8 @@ class CaseStudy:
     element_drop_mm: Array
     spring_compression_mm: Array
     stable: NDArray[np.bool_]
+    follows_wheel: float
+    """Share of the wheel's motion the element follows (0 bolted; the route ratio)."""
     car: QuarterCar
     """The quarter car at top speed (SI units), for a time simulation."""
     classes: dict[str, dict[str, Array]]
@@ -148,9 +152,12 @@ def _axle_x(design: Design, corners: tuple[str, ...]) -> float:
     return float(np.mean([design.corner(c).wheel_centre_mm[0] for c in corners]))
 
 
-def _aero_at_top(analysis: Analysis, top_kmh: float) -> tuple[float, float, dict[str, float]]:
+def _aero_at_top(
+    analysis: Analysis, top_kmh: float
+) -> tuple[float, float, dict[str, float], dict[str, float]]:
     """The elements' vertical aero load at top speed (N, + = down), its centre's x (mm),
-    and the part each corner's tyre receives through the routes (N, + = down)."""
+    the part each corner's tyre receives through the routes (N, + = down), and each
+    corner's mean route ratio at the design pose."""
     design, link = analysis.design, analysis.link
     nc = len(link.corner_names)
     spec = SweepSpec("design", TravelDrive(np.zeros((1, nc))), {"travel_mm": np.zeros(1)})
@@ -163,7 +170,12 @@ def _aero_at_top(analysis: Analysis, top_kmh: float) -> tuple[float, float, dict
     down = -(loads.force_N[0, aero, 2] - loads.force_N[1, aero, 2])
     total = float(down.sum())
     x = float(np.sum(down * loads.point_mm[aero, 0]) / total) if total else 0.0
-    return total, x, {name: float(contact[c]) for c, name in enumerate(link.corner_names)}
+    ratios = route_ratios(link, analysis.routes, result)
+    by_corner: dict[str, list[float]] = {}
+    for route in analysis.routes.routes:
+        by_corner.setdefault(route.corner, []).append(float(ratios[route.name][0]))
+    delivered = {name: float(contact[c]) for c, name in enumerate(link.corner_names)}
+    return total, x, delivered, {c: float(np.mean(v)) for c, v in by_corner.items()}
 
 
 # -- wheel rates -------------------------------------------------------------------
@@ -231,7 +243,7 @@ def study_tradeoff(analysis: Analysis, mass: MassReport) -> TradeoffStudy:
             src, "design.top_speed_kmh", "missing: the study sweeps speeds up to top speed",
             "add top_speed_kmh under [design]",
         )  # fmt: skip
-    total_N, x_cp, delivered = _aero_at_top(analysis, top)
+    total_N, x_cp, delivered, ratio = _aero_at_top(analysis, top)
     if total_N <= 0.0:
         raise DesignFileError(
             src, f"elements.{design.elements[0].name}.aero",
@@ -244,7 +256,16 @@ def study_tradeoff(analysis: Analysis, mass: MassReport) -> TradeoffStudy:
     speeds = top * np.arange(1, spec.speed_steps + 1) / spec.speed_steps
     axles = {
         axle: _study_axle(
-            analysis, mass, spec, axle, corners, shares[axle], total_N, delivered, speeds
+            analysis,
+            mass,
+            spec,
+            axle,
+            corners,
+            shares[axle],
+            total_N,
+            delivered,
+            speeds,
+            ratio,
         )
         for axle, corners in groups.items()
     }
@@ -300,6 +321,7 @@ def _study_axle(
     total_N: float,
     delivered: dict[str, float],
     speeds: Array,
+    ratio: dict[str, float],
 ) -> AxleStudy:
     design = analysis.design
     src = design.source
@@ -332,6 +354,7 @@ def _study_axle(
     budget = spec.ride_height_budget_mm * 1e-3
     bump = _bump_travel(design, spec)
     top = float(speeds[-1])
+    follows = float(np.mean([ratio.get(c, 1.0) for c in corners]))
 
     def car(m_unsprung: float, rate: float, on: str) -> QuarterCar:
         c = 1e3 * (spec.damper_rate_N_s_per_mm or 0.0)
@@ -360,7 +383,7 @@ def _study_axle(
     cases = {
         name: _case(
             name, car(mu_c, rates[name][0], on), rates[name][1], loads[name], static_kg,
-            speeds, spec, bump,
+            speeds, spec, bump, 0.0 if name == "bolted" else follows,
         )
         for name, mu_c, on, static_kg in (
             ("bolted", m_u, "sprung", m_u),
@@ -430,7 +453,10 @@ def _case(
     speeds: Array,
     spec: TradeoffSpec,
     bump_m: float,
+    follows: float,
 ) -> CaseStudy:
+    """One case over the speeds; ``follows`` is the share of the wheel's motion the
+    element follows (0 bolted, the route ratio routed)."""
     top = float(speeds[-1])
     at_rest = QuarterCar(
         car0.sprung_kg, car0.unsprung_kg, car0.spring_N_m, car0.damper_N_s_m, car0.tyre_N_m
@@ -456,17 +482,21 @@ def _case(
             continue
         stable[i] = True
         drop[i], squeeze[i] = body * 1e3, (body - wheel) * 1e3
-        element[i] = (body if car.aero_on == "sprung" else wheel) * 1e3
+        element[i] = ((1.0 - follows) * body + follows * wheel) * 1e3
         v = v_kmh / 3.6
         band = band_limited_mean_squares(
             car, velocity_psd_m2_s(1.0, v), tuple(b * v for b in ISO_8608_BAND_CYCLES_PER_M)
+        )
+        height = combined_mean_square(
+            car,
+            velocity_psd_m2_s(1.0, v),
+            {"body_height": 1.0 - follows, "wheel_height": follows},
         )
         f_static = (car.sprung_kg + static_unsprung_kg) * STANDARD_GRAVITY_M_S2 + s_N + u_N
         for c in spec.road_classes:
             gd = class_mean_m3(c)
             tyre = math.sqrt(unit["tyre_load"] * gd)
             travel = math.sqrt(unit["travel"] * gd)
-            height = unit["body_height" if car.aero_on == "sprung" else "wheel_height"]
             out = classes[c]
             out["tyre_load_rms_N"][i] = tyre
             out["tyre_load_ratio"][i] = tyre / f_static
@@ -491,6 +521,7 @@ def _case(
         element_drop_mm=element,
         spring_compression_mm=squeeze,
         stable=stable,
+        follows_wheel=follows,
         car=car0,
         classes=classes,
     )
