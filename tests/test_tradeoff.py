@@ -44,9 +44,13 @@ def test_example_front_axle_bookkeeping(study: TradeoffStudy) -> None:
     axle = study.axles["front"]
     assert list(study.axles) == ["front"]
     bolted, routed = axle.cases["bolted"], axle.cases["routed"]
-    # lever rule for a load ahead of the front axle (statics of a beam on two supports,
-    # Gere or Hibbeler, any edition): share = (WB + a)/WB, a = 600 mm, WB = 2300 mm
-    assert axle.load_share == pytest.approx((2300.0 + 600.0) / 2300.0, rel=1e-9)
+    # statics of the car on its two axles (a beam on two supports, Gere or Hibbeler, any
+    # edition; moments about the rear axle's ground line): the downforce F acts a = 600 mm
+    # ahead of the front axle of a WB = 2300 mm car, the drag D at h = 70 mm above the
+    # ground pitches the nose up: front share = (F·(WB + a) − D·h)/(WB·F)
+    q = 0.5 * 1.225 * 50.0**2
+    f, d = q * 0.6 * 1.2, q * 0.6 * 0.25
+    assert axle.load_share == pytest.approx((f * 2900.0 - d * 70.0) / (2300.0 * f), rel=1e-9)
     # Newton: the tyres carry the same load either way; the route only moves it off the
     # springs
     assert routed.sprung_load_N + routed.unsprung_load_N == pytest.approx(

@@ -19,20 +19,10 @@ from typing import Any
 
 import numpy as np
 
-from plumbrod.outputs.cautions import CAUTION
+from plumbrod.outputs.cautions import CAUTION, RIDE_CAUTION
 from plumbrod.verdict.tradeoff import CASES, FIGURES, AxleStudy, CaseStudy, TradeoffStudy
 
 __all__ = ["RIDE_CAUTION", "study_csv", "study_json", "study_text"]
-
-RIDE_CAUTION = (
-    "Ride study: an idealised linear quarter car per axle (linear spring, damper and "
-    "tyre; the tyre never leaves the road; no bump stop, no friction), driven in a "
-    "straight line (no roll, pitch or load transfer between the axles), on one ISO 8608 "
-    "road class at a time with the left and right tracks uncorrelated; the probabilities "
-    "assume Gaussian responses. Use it to compare bolted with routed, not as a lap-time "
-    "or durability prediction; many series ban aero devices mounted to move with the "
-    "suspension."
-)
 
 _SHOWN = (
     ("element_height_rms_mm", "element height RMS, mm", "{:.2f}"),

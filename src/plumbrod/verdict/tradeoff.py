@@ -152,12 +152,23 @@ def _axle_x(design: Design, corners: tuple[str, ...]) -> float:
     return float(np.mean([design.corner(c).wheel_centre_mm[0] for c in corners]))
 
 
-def _aero_at_top(
-    analysis: Analysis, top_kmh: float
-) -> tuple[float, float, dict[str, float], dict[str, float]]:
-    """The elements' vertical aero load at top speed (N, + = down), its centre's x (mm),
-    the part each corner's tyre receives through the routes (N, + = down), and each
-    corner's mean route ratio at the design pose."""
+@dataclass(frozen=True)
+class _Aero:
+    """The elements' aero loads at top speed, at the design pose."""
+
+    down_N: float
+    """Vertical load, + = down (N)."""
+    x_mm: float
+    """x of its line of action (mm)."""
+    drag_moment_Nmm: float
+    """Σ drag × height above the ground (N·mm): the pitch moment that loads the rear."""
+    delivered_N: dict[str, float]
+    """What each corner's tyre receives through the routes (N, + = down)."""
+    route_ratio: dict[str, float]
+    """Each corner's mean route ratio."""
+
+
+def _aero_at_top(analysis: Analysis, top_kmh: float) -> _Aero:
     design, link = analysis.design, analysis.link
     nc = len(link.corner_names)
     spec = SweepSpec("design", TravelDrive(np.zeros((1, nc))), {"travel_mm": np.zeros(1)})
@@ -167,15 +178,18 @@ def _aero_at_top(
     statics = solve_statics(link, analysis.routes, analysis.members, loads, result)
     contact = statics.contact_force_N[0, 0] - statics.contact_force_N[0, 1]
     aero = [i for i, label in enumerate(loads.labels) if label.endswith(" aero")]
-    down = -(loads.force_N[0, aero, 2] - loads.force_N[1, aero, 2])
+    force = loads.force_N[0, aero] - loads.force_N[1, aero]
+    down = -force[:, 2]
     total = float(down.sum())
     x = float(np.sum(down * loads.point_mm[aero, 0]) / total) if total else 0.0
+    ground = float(np.mean([c.wheel_centre_mm[2] - c.tyre_radius_mm for c in design.corners]))
+    drag = float(np.sum(-force[:, 0] * (loads.point_mm[aero, 2] - ground)))
     ratios = route_ratios(link, analysis.routes, result)
     by_corner: dict[str, list[float]] = {}
     for route in analysis.routes.routes:
         by_corner.setdefault(route.corner, []).append(float(ratios[route.name][0]))
     delivered = {name: float(contact[c]) for c, name in enumerate(link.corner_names)}
-    return total, x, delivered, {c: float(np.mean(v)) for c, v in by_corner.items()}
+    return _Aero(total, x, drag, delivered, {c: float(np.mean(v)) for c, v in by_corner.items()})
 
 
 # -- wheel rates -------------------------------------------------------------------
@@ -243,7 +257,8 @@ def study_tradeoff(analysis: Analysis, mass: MassReport) -> TradeoffStudy:
             src, "design.top_speed_kmh", "missing: the study sweeps speeds up to top speed",
             "add top_speed_kmh under [design]",
         )  # fmt: skip
-    total_N, x_cp, delivered, ratio = _aero_at_top(analysis, top)
+    aero = _aero_at_top(analysis, top)
+    total_N, delivered, ratio = aero.down_N, aero.delivered_N, aero.route_ratio
     if total_N <= 0.0:
         raise DesignFileError(
             src, f"elements.{design.elements[0].name}.aero",
@@ -252,7 +267,7 @@ def study_tradeoff(analysis: Analysis, mass: MassReport) -> TradeoffStudy:
         )  # fmt: skip
     groups = axle_groups(design)
     notes: list[str] = []
-    shares = _lever_shares(design, spec, groups, x_cp, notes)
+    shares = _lever_shares(design, spec, groups, aero, notes)
     speeds = top * np.arange(1, spec.speed_steps + 1) / spec.speed_steps
     axles = {
         axle: _study_axle(
@@ -269,6 +284,15 @@ def study_tradeoff(analysis: Analysis, mass: MassReport) -> TradeoffStudy:
         )
         for axle, corners in groups.items()
     }
+    for axle in axles.values():
+        bolted = axle.cases["bolted"]
+        sink = float(bolted.ride_height_drop_mm[-1])
+        if bolted.rate_from == "given" and sink > spec.ride_height_budget_mm * (1 + 1e-9):
+            notes.append(
+                f"bolted, the {axle.axle} springs at {bolted.wheel_rate_N_per_mm:g} N/mm let "
+                f"the body sink {sink:.1f} mm at {top:g} km/h, beyond the "
+                f"{spec.ride_height_budget_mm:g} mm budget"
+            )
     return TradeoffStudy(
         design=design.name,
         source=src,
@@ -286,13 +310,19 @@ def _lever_shares(
     design: Design,
     spec: TradeoffSpec,
     groups: dict[str, tuple[str, ...]],
-    x_cp: float,
+    aero: _Aero,
     notes: list[str],
 ) -> dict[str, float]:
-    """Each axle's share of the vertical load (statics of the car on its two axles)."""
+    """Each axle's share of the vertical load: statics of the car on its two axles, the
+    drag's pitch moment included (moments about the other axle's ground line)."""
+
+    def share(x_axle: float, x_other: float) -> float:
+        moment = aero.down_N * (aero.x_mm - x_other) - aero.drag_moment_Nmm
+        return moment / (x_axle - x_other) / aero.down_N
+
     if len(groups) == 2:
         xf, xr = _axle_x(design, groups["front"]), _axle_x(design, groups["rear"])
-        front = (x_cp - xr) / (xf - xr)
+        front = share(xf, xr)
         return {"front": front, "rear": 1.0 - front}
     (axle, corners), = groups.items()  # fmt: skip
     if spec.wheelbase_mm is None:
@@ -303,12 +333,12 @@ def _lever_shares(
         return {axle: 1.0}
     xa = _axle_x(design, corners)
     other = xa - spec.wheelbase_mm if axle == "front" else xa + spec.wheelbase_mm
-    share = (x_cp - other) / (xa - other)
+    mine = share(xa, other)
     notes.append(
-        f"the other axle's springs carry {1.0 - share:+.0%} of the load, the same "
+        f"the other axle's springs carry {1.0 - mine:+.0%} of the downforce, the same "
         "bolted or routed: its quarter car does not change"
     )
-    return {axle: share}
+    return {axle: mine}
 
 
 def _study_axle(
