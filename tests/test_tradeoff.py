@@ -16,7 +16,7 @@ from plumbrod.cli.main import main
 from plumbrod.design.loading import parse_design
 from plumbrod.mechanics.analysis import analyse
 from plumbrod.mechanics.mass import mass_report
-from plumbrod.mechanics.ride import mean_squares
+from plumbrod.mechanics.ride import QuarterCar, mean_squares
 from plumbrod.mechanics.road import class_mean_m3, velocity_psd_m2_s
 from plumbrod.verdict.tradeoff import TradeoffStudy, study_tradeoff
 
@@ -108,6 +108,21 @@ def test_example_verdict_sentence(study: TradeoffStudy) -> None:
     hr = study.axles["front"].cases["routed"].classes["A"]["element_height_rms_mm"][-1]
     assert f"±{hr:.1f} mm" in sentence
     assert "front wheel rate drop from" in sentence
+    # what the added mass alone does: the routed unsprung mass on the bolted spring
+    axle = study.axles["front"]
+    b, r = axle.cases["bolted"], axle.cases["routed"]
+    alone = QuarterCar(
+        b.sprung_mass_kg,
+        r.unsprung_mass_kg,
+        b.wheel_rate_N_per_mm * 1e3,
+        b.damper_N_s_per_mm * 1e3,
+        250e3,
+    )
+    psd = velocity_psd_m2_s(class_mean_m3("A"), 50.0)
+    rms = math.sqrt(mean_squares(alone, psd)["tyre_load"])
+    assert axle.tyre_load_rms_mass_only_N == pytest.approx(rms, rel=1e-9)
+    assert rms > b.classes["A"]["tyre_load_rms_N"][-1]  # more unsprung mass, more variation
+    assert f"{rms / b.classes['A']['tyre_load_rms_N'][-1] - 1:+.0%} from the mass alone" in sentence
 
 
 def test_command_writes_json_and_csv_with_the_published_names(tmp_path: Path) -> None:

@@ -111,6 +111,9 @@ class AxleStudy:
     bump_travel_mm: float
     cases: dict[str, CaseStudy]
     sentence: str
+    tyre_load_rms_mass_only_N: float | None = None
+    """Tyre-load RMS at top speed on the first class with the routed unsprung mass on the
+    bolted spring and damper: what the added mass alone does."""
 
 
 @dataclass(frozen=True)
@@ -420,7 +423,16 @@ def _study_axle(
             ("routed", m_u + added, "unsprung", m_u + static_added),
         )
     }  # fmt: skip
-    study = AxleStudy(axle, corners, share, added, spec.tyre_rate_N_per_mm, bump * 1e3, cases, "")
+    try:  # the added mass alone: routed unsprung mass on the bolted spring
+        alone = car(m_u + added, rates["bolted"][0], "unsprung")
+        v_top = top / 3.6
+        psd = velocity_psd_m2_s(class_mean_m3(spec.road_classes[0]), v_top)
+        mass_only: float | None = math.sqrt(mean_squares(alone, psd)["tyre_load"])
+    except Unstable:
+        mass_only = None
+    study = AxleStudy(
+        axle, corners, share, added, spec.tyre_rate_N_per_mm, bump * 1e3, cases, "", mass_only
+    )
     return AxleStudy(**{**study.__dict__, "sentence": _sentence(study, analysis, spec, speeds)})
 
 
@@ -586,9 +598,12 @@ def _sentence(study: AxleStudy, analysis: Analysis, spec: TradeoffSpec, speeds: 
         rate = f"keeps the {study.axle} wheel rate at {kb:.0f} N/mm"
     change = tr / tb - 1.0
     verb = "rises" if change >= 0 else "falls"
+    alone = ""
+    if study.tyre_load_rms_mass_only_N is not None and kr != kb:
+        alone = f", {study.tyre_load_rms_mass_only_N / tb - 1.0:+.0%} from the mass alone"
     return (
         f"on a class-{cls} road the routed {what} holds its height within ±{hr:.1f} mm "
         f"against ±{hb:.1f} mm bolted and {rate}; tyre-load variation {verb} "
-        f"{abs(change):.0%} from the {study.added_unsprung_kg:.1f} kg added per corner "
-        f"(RMS at {speeds[-1]:.0f} km/h)"
+        f"{abs(change):.0%} with the {study.added_unsprung_kg:.1f} kg added per corner"
+        f"{alone} (RMS at {speeds[-1]:.0f} km/h)"
     )
