@@ -18,6 +18,7 @@ from plumbrod.design.crosscheck import check_geometry, check_references
 from plumbrod.design.mirror import mirrored
 from plumbrod.design.model import Design, Plane
 from plumbrod.design.reader import BuildState
+from plumbrod.design.tradeoff_spec import read_tradeoff
 
 TOP_LEVEL_KEYS = (
     "design",
@@ -31,6 +32,8 @@ TOP_LEVEL_KEYS = (
     "load_cases",
     "materials",
     "zones",
+    "tune",
+    "tradeoff",
 )
 
 
@@ -73,6 +76,7 @@ def build_design(data: dict[str, Any], source: str) -> Design:
     materials = read_materials(s, data.get("materials", {}))
     load_cases = read_load_cases(s, data.get("load_cases", {}), elements)
     zones = read_zones(s, data.get("zones", {}))
+    tradeoff = read_tradeoff(data.get("tradeoff"), r)
 
     design = Design(
         name=name,
@@ -90,6 +94,7 @@ def build_design(data: dict[str, Any], source: str) -> Design:
         zones=tuple(zones),
         note=note,
         top_speed_kmh=top_speed,
+        tradeoff=tradeoff,
     )
     if mirror:
         design = mirrored(design, r, s.pickup_where)
