@@ -260,3 +260,46 @@ def test_every_example_runs(name: str, tmp_path: Path) -> None:
             < axle["bolted"]["element_height_rms_mm"][-1]
         )
         assert axle["verdict"].startswith("on a class-A road")
+
+
+def test_probabilities_are_the_gaussian_tails(study: TradeoffStudy) -> None:
+    # Gaussian response (linear car, Gaussian road): P(unload) = Φ(−F_static/σ_F) with
+    # F_static = (m_s + m_u)·g + the downforce on the tyre; P(bump stop) = Φ(−(travel to
+    # the stop − static compression)/σ_travel); reference: scipy.stats.norm.sf
+    from scipy import stats
+
+    axle = study.axles["front"]
+    b = axle.cases["bolted"]
+    out = b.classes["B"]
+    f_static = (110.0 + 16.0) * 9.80665 + b.sprung_load_N
+    sigma = out["tyre_load_rms_N"][-1]
+    assert out["unloading_probability"][-1] == pytest.approx(
+        float(stats.norm.sf(f_static / sigma)), rel=1e-9
+    )
+    margin = axle.bump_travel_mm - b.spring_compression_mm[-1]
+    assert axle.bump_travel_mm == 40.0  # the travel sweep's bump end
+    assert out["bump_stop_probability"][-1] == pytest.approx(
+        float(stats.norm.sf(margin / out["travel_rms_mm"][-1])), rel=1e-9
+    )
+
+
+def test_other_ways_to_give_masses_and_damping() -> None:
+    # the car's sprung mass and its front share give the same corner mass; a damper rate
+    # instead of a ratio keeps the damper the same in both cases
+    total = _study(
+        _with(
+            "corner_sprung_mass_front_kg = 110.0   # the front axle's sprung mass per corner\n"
+            "corner_sprung_mass_rear_kg = 135.0",
+            "sprung_mass_kg = 490.0\nsprung_mass_front_share = 0.4489795918367347",
+        )
+    )
+    plain = _study()
+    a, b = total.axles["front"].cases["routed"], plain.axles["front"].cases["routed"]
+    assert a.sprung_mass_kg == pytest.approx(110.0, rel=1e-12)
+    assert a.classes["A"]["tyre_load_rms_N"][-1] == pytest.approx(
+        b.classes["A"]["tyre_load_rms_N"][-1], rel=1e-9
+    )
+    rate = _study(_with("damping_ratio = 0.5", "damper_rate_N_s_per_mm = 2.5\nbump_travel_mm = 30"))
+    cases = rate.axles["front"].cases
+    assert cases["bolted"].damper_N_s_per_mm == cases["routed"].damper_N_s_per_mm == 2.5
+    assert rate.axles["front"].bump_travel_mm == 30.0
