@@ -65,9 +65,19 @@ def test_example_front_axle_bookkeeping(study: TradeoffStudy) -> None:
     assert axle.added_unsprung_kg > 0.0
 
 
-def test_example_wheel_rates_meet_the_budget(study: TradeoffStudy) -> None:
+def test_example_uses_the_cars_wheel_rate(study: TradeoffStudy) -> None:
+    bolted = study.axles["front"].cases["bolted"]
+    assert bolted.rate_from == "given" and bolted.wheel_rate_N_per_mm == 60.0  # [car]
+    # Hooke's law, spring and tyre in series: the body sinks S/k_s + S/k_t
+    s = bolted.sprung_load_N
+    assert bolted.ride_height_drop_mm[-1] == pytest.approx((s / 60e3 + s / 250e3) * 1e3)
+    assert any("beyond the 8 mm budget" in note for note in study.notes)
+
+
+def test_example_wheel_rates_meet_the_budget() -> None:
     # Hooke's law, spring and tyre in series: the bolted body sinks S/k_s + S/k_t; the
     # softest rate for a budget B is k_s = S/(B − S/k_t)
+    study = _study(_with("wheel_rate_front_N_per_mm = 60.0\n", ""))
     axle = study.axles["front"]
     bolted, routed = axle.cases["bolted"], axle.cases["routed"]
     b, kt = 8e-3, 250e3
@@ -221,7 +231,7 @@ def test_aero_stiffness_lowers_the_body_frequency_and_can_go_unstable(
         )
     text = _with(
         anchor,
-        f"{anchor}\ndownforce_per_mm = 100.0\nwheel_rate_front_N_per_mm = 60.0",
+        f"{anchor}\ndownforce_per_mm = 100.0",  # on the [car] front rate of 60 N/mm
     )
     path = tmp_path / "unstable.toml"
     path.write_text(text)
@@ -304,3 +314,15 @@ def test_other_ways_to_give_masses_and_damping() -> None:
     cases = rate.axles["front"].cases
     assert cases["bolted"].damper_N_s_per_mm == cases["routed"].damper_N_s_per_mm == 2.5
     assert rate.axles["front"].bump_travel_mm == 30.0
+
+
+def test_without_a_wheelbase_the_axle_takes_the_whole_load() -> None:
+    study = _study(_with("wheelbase_mm = 2300.0\n", ""))
+    axle = study.axles["front"]
+    assert axle.load_share == pytest.approx(1.0, rel=1e-12)
+    assert any("give [car] wheelbase_mm" in note for note in study.notes)
+    # the route still delivers the same load to the tyres (its statics needs no wheelbase)
+    plain = _study()
+    assert axle.cases["routed"].unsprung_load_N == pytest.approx(
+        plain.axles["front"].cases["routed"].unsprung_load_N, rel=1e-6
+    )
