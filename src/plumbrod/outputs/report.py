@@ -1,7 +1,8 @@
 """Reports of an analysis: a readable text table and JSON.
 
 JSON layout (documented in the README): top-level ``design``, ``checks``, ``sweeps``,
-plus ``verdict``, ``location``, ``routes`` and ``caution``.  Every key that carries a
+``springs`` (:mod:`plumbrod.outputs.springs_report`), plus ``verdict``, ``location``,
+``routes`` and ``caution``.  Every key that carries a
 unit says it (``_mm``, ``_deg``, ``_N``).
 """
 
@@ -16,6 +17,7 @@ from plumbrod.mechanics.analysis import Analysis
 from plumbrod.mechanics.members import Member
 from plumbrod.outputs.cautions import CAUTION
 from plumbrod.outputs.json_text import dumps_finite
+from plumbrod.outputs.springs_report import springs_json, springs_lines
 from plumbrod.verdict.checks import CheckResult
 from plumbrod.verdict.findings import Findings
 
@@ -195,6 +197,7 @@ def as_text(findings: Findings) -> str:
         lines.append("")
         for c in details:
             lines.append(f"{c.id}: {c.detail}")
+    lines += springs_lines(analysis)
     if findings.reserves and analysis.statics:
         lines += ["", "members (worst over every sweep and load case; force + tension)"]
         lines += _table(member_rows(findings))
@@ -259,6 +262,20 @@ def sweep_json(analysis: Analysis) -> dict[str, object]:
                 e: {_sens_key(k): _series(v) for k, v in r.bolted_sensitivity.items()}
                 for e, r in fig.ride_height.items()
             }
+        if fig.attitude:
+            kinds = {e.name: e.kind for e in analysis.design.elements}
+            attitude: dict[str, object] = {}
+            for e, att in fig.attitude.items():
+                item = {
+                    "pitch_deg": _series(att.pitch_deg),
+                    "roll_deg": _series(att.roll_deg),
+                    "pitch_bolted_deg": _series(att.bolted_pitch_deg),
+                    "roll_bolted_deg": _series(att.bolted_roll_deg),
+                }
+                if kinds.get(e) == "wing":
+                    item["angle_of_attack_change_deg"] = _series(att.pitch_deg)
+                attitude[e] = item
+            entry["attitude"] = attitude
         out[name] = entry
     return out
 
@@ -364,6 +381,7 @@ def as_json(findings: Findings, *, indent: int | None = 1) -> str:
                 k: _finite(v) for k, v in findings.compliance.route_stiffness_N_per_mm.items()
             }
         },
+        "springs": springs_json(analysis),
         "sweeps": sweep_json(analysis),
         "caution": CAUTION,
     }

@@ -22,10 +22,12 @@ from dataclasses import dataclass, field
 import numpy as np
 from numpy.typing import NDArray
 
+from plumbrod.design.car import car_layout
 from plumbrod.design.model import Design, LoadCase
 from plumbrod.design.tradeoff_spec import TradeoffSpec
 from plumbrod.errors import DesignFileError
 from plumbrod.kinematics.drives import TravelDrive
+from plumbrod.kinematics.figures import route_ratios
 from plumbrod.kinematics.sweeps import SweepSpec, run_sweep
 from plumbrod.mechanics.analysis import Analysis
 from plumbrod.mechanics.loads import STANDARD_GRAVITY_M_S2, applied_loads
@@ -34,6 +36,7 @@ from plumbrod.mechanics.ride import (
     QuarterCar,
     Unstable,
     band_limited_mean_squares,
+    combined_mean_square,
     gaussian_exceedance,
     mean_squares,
     natural_frequencies_Hz,
@@ -45,6 +48,7 @@ from plumbrod.mechanics.road import (
     class_mean_m3,
     velocity_psd_m2_s,
 )
+from plumbrod.mechanics.springs import spring_loads
 from plumbrod.mechanics.statics import solve_statics
 
 __all__ = ["CASES", "AxleStudy", "CaseStudy", "TradeoffStudy", "axle_groups", "study_tradeoff"]
@@ -89,6 +93,8 @@ class CaseStudy:
     element_drop_mm: Array
     spring_compression_mm: Array
     stable: NDArray[np.bool_]
+    follows_wheel: float
+    """Share of the wheel's motion the element follows (0 bolted; the route ratio)."""
     car: QuarterCar
     """The quarter car at top speed (SI units), for a time simulation."""
     classes: dict[str, dict[str, Array]]
@@ -107,6 +113,9 @@ class AxleStudy:
     bump_travel_mm: float
     cases: dict[str, CaseStudy]
     sentence: str
+    tyre_load_rms_mass_only_N: float | None = None
+    """Tyre-load RMS at top speed on the first class with the routed unsprung mass on the
+    bolted spring and damper: what the added mass alone does."""
 
 
 @dataclass(frozen=True)
@@ -126,31 +135,36 @@ class TradeoffStudy:
 
 
 def axle_groups(design: Design) -> dict[str, tuple[str, ...]]:
-    """The design's corners by axle: grouped by wheel-centre x (within 50 mm), the front
-    axle the one with the larger x; one axle is 'rear' when every corner's name says so."""
-    order = sorted(design.corners, key=lambda c: -c.wheel_centre_mm[0])
-    groups: list[list[str]] = []
-    xs: list[float] = []
-    for corner in order:
-        x = corner.wheel_centre_mm[0]
-        if xs and abs(xs[-1] - x) <= AXLE_TOLERANCE_MM:
-            groups[-1].append(corner.name)
-        else:
-            groups.append([corner.name])
-            xs.append(x)
-    if len(groups) == 1:
-        rear = all("rear" in name for name in groups[0])
-        return {"rear" if rear else "front": tuple(groups[0])}
-    return {"front": tuple(groups[0]), "rear": tuple(groups[-1])}
+    """The design's corners by axle (``[car]`` and the corners, as the spring loads see
+    them): only the axles that hold a corner."""
+    return {a.name: a.corners for a in car_layout(design).axles if a.in_design}
 
 
 def _axle_x(design: Design, corners: tuple[str, ...]) -> float:
     return float(np.mean([design.corner(c).wheel_centre_mm[0] for c in corners]))
 
 
-def _aero_at_top(analysis: Analysis, top_kmh: float) -> tuple[float, float, dict[str, float]]:
-    """The elements' vertical aero load at top speed (N, + = down), its centre's x (mm),
-    and the part each corner's tyre receives through the routes (N, + = down)."""
+@dataclass(frozen=True)
+class _Aero:
+    """The elements' aero loads at top speed, at the design pose."""
+
+    down_N: float
+    """Vertical load, + = down (N)."""
+    x_mm: float
+    """x of its line of action (mm)."""
+    drag_moment_Nmm: float
+    """Σ drag × height above the ground (N·mm): the pitch moment that loads the rear."""
+    delivered_N: dict[str, float]
+    """What each corner's tyre receives through the routes (N, + = down)."""
+    route_ratio: dict[str, float]
+    """Each corner's mean route ratio."""
+    axle_N: dict[str, tuple[float, float, float]]
+    """Per axle with corners, per spring: (tyre gain, spring change routed, spring change
+    bolted) in N, + = more load, from the spring loads (DESIGN §5a); empty when a
+    wheelbase is needed and unknown."""
+
+
+def _aero_at_top(analysis: Analysis, top_kmh: float) -> _Aero:
     design, link = analysis.design, analysis.link
     nc = len(link.corner_names)
     spec = SweepSpec("design", TravelDrive(np.zeros((1, nc))), {"travel_mm": np.zeros(1)})
@@ -160,10 +174,34 @@ def _aero_at_top(analysis: Analysis, top_kmh: float) -> tuple[float, float, dict
     statics = solve_statics(link, analysis.routes, analysis.members, loads, result)
     contact = statics.contact_force_N[0, 0] - statics.contact_force_N[0, 1]
     aero = [i for i, label in enumerate(loads.labels) if label.endswith(" aero")]
-    down = -(loads.force_N[0, aero, 2] - loads.force_N[1, aero, 2])
+    force = loads.force_N[0, aero] - loads.force_N[1, aero]
+    down = -force[:, 2]
     total = float(down.sum())
     x = float(np.sum(down * loads.point_mm[aero, 0]) / total) if total else 0.0
-    return total, x, {name: float(contact[c]) for c, name in enumerate(link.corner_names)}
+    ground = float(np.mean([c.wheel_centre_mm[2] - c.tyre_radius_mm for c in design.corners]))
+    drag = float(np.sum(-force[:, 0] * (loads.point_mm[aero, 2] - ground)))
+    ratios = route_ratios(link, analysis.routes, result)
+    by_corner: dict[str, list[float]] = {}
+    for route in analysis.routes.routes:
+        by_corner.setdefault(route.corner, []).append(float(ratios[route.name][0]))
+    delivered = {name: float(contact[c]) for c, name in enumerate(link.corner_names)}
+    springs = spring_loads(link, analysis.routes, analysis.members, loads, {}, {})
+    d = springs.design
+    tyre = d.tyre_gain_N[0, 0] - d.tyre_gain_N[0, 1]  # (S,)
+    routed = (d.spring_N[0, 0] - d.spring_N[0, 1]).sum(axis=0)  # (S,)
+    bolted = (d.spring_bolted_N[0, 0] - d.spring_bolted_N[0, 1]).sum(axis=0)
+    per_axle: dict[str, tuple[float, float, float]] = {}
+    for a, axle in enumerate(springs.layout.axles):
+        idx = [i for i, k in enumerate(springs.spring_axle) if k == a]
+        values = (
+            float(np.mean(tyre[idx])),
+            float(np.mean(routed[idx])),
+            float(np.mean(bolted[idx])),
+        )
+        if axle.in_design and all(math.isfinite(v) for v in values):
+            per_axle[axle.name] = values
+    ratio = {c: float(np.mean(v)) for c, v in by_corner.items()}
+    return _Aero(total, x, drag, delivered, ratio, per_axle)
 
 
 # -- wheel rates -------------------------------------------------------------------
@@ -231,8 +269,9 @@ def study_tradeoff(analysis: Analysis, mass: MassReport) -> TradeoffStudy:
             src, "design.top_speed_kmh", "missing: the study sweeps speeds up to top speed",
             "add top_speed_kmh under [design]",
         )  # fmt: skip
-    total_N, x_cp, delivered = _aero_at_top(analysis, top)
-    if total_N <= 0.0:
+    aero = _aero_at_top(analysis, top)
+    ratio = aero.route_ratio
+    if aero.down_N <= 0.0:
         raise DesignFileError(
             src, f"elements.{design.elements[0].name}.aero",
             "no downforce at top speed: the study needs each element's aero data",
@@ -240,14 +279,30 @@ def study_tradeoff(analysis: Analysis, mass: MassReport) -> TradeoffStudy:
         )  # fmt: skip
     groups = axle_groups(design)
     notes: list[str] = []
-    shares = _lever_shares(design, spec, groups, x_cp, notes)
+    loads_by_axle = _axle_loads(design, groups, aero, notes)
     speeds = top * np.arange(1, spec.speed_steps + 1) / spec.speed_steps
     axles = {
         axle: _study_axle(
-            analysis, mass, spec, axle, corners, shares[axle], total_N, delivered, speeds
+            analysis,
+            mass,
+            spec,
+            axle,
+            corners,
+            loads_by_axle[axle],
+            speeds,
+            ratio,
         )
         for axle, corners in groups.items()
     }
+    for axle in axles.values():
+        bolted = axle.cases["bolted"]
+        sink = float(bolted.ride_height_drop_mm[-1])
+        if bolted.rate_from == "given" and sink > spec.ride_height_budget_mm * (1 + 1e-9):
+            notes.append(
+                f"bolted, the {axle.axle} springs at {bolted.wheel_rate_N_per_mm:g} N/mm let "
+                f"the body sink {sink:.1f} mm at {top:g} km/h, beyond the "
+                f"{spec.ride_height_budget_mm:g} mm budget"
+            )
     return TradeoffStudy(
         design=design.name,
         source=src,
@@ -261,33 +316,46 @@ def study_tradeoff(analysis: Analysis, mass: MassReport) -> TradeoffStudy:
     )
 
 
-def _lever_shares(
-    design: Design,
-    spec: TradeoffSpec,
-    groups: dict[str, tuple[str, ...]],
-    x_cp: float,
-    notes: list[str],
-) -> dict[str, float]:
-    """Each axle's share of the vertical load (statics of the car on its two axles)."""
-    if len(groups) == 2:
-        xf, xr = _axle_x(design, groups["front"]), _axle_x(design, groups["rear"])
-        front = (x_cp - xr) / (xf - xr)
-        return {"front": front, "rear": 1.0 - front}
-    (axle, corners), = groups.items()  # fmt: skip
-    if spec.wheelbase_mm is None:
+@dataclass(frozen=True)
+class _AxleLoad:
+    """Downforce at top speed per corner of one axle (N, + = down)."""
+
+    share: float
+    """The axle's share of the elements' vertical load."""
+    tyre_N: float
+    spring_routed_N: float
+    spring_bolted_N: float
+
+
+def _axle_loads(
+    design: Design, groups: dict[str, tuple[str, ...]], aero: _Aero, notes: list[str]
+) -> dict[str, _AxleLoad]:
+    """Each axle's tyre and spring loads from the spring loads of DESIGN §5a (statics of
+    the chassis on its two axles, the drag's pitch moment included); without a wheelbase
+    a one-axle design puts the whole load on its axle (and says so)."""
+    layout = car_layout(design)
+    out: dict[str, _AxleLoad] = {}
+    for axle in layout.axles:
+        if not axle.in_design:
+            continue
+        n = len(axle.springs)
+        if axle.name in aero.axle_N:
+            tyre, routed, bolted = aero.axle_N[axle.name]
+        else:
+            tyre = bolted = aero.down_N / n
+            routed = tyre - float(np.mean([aero.delivered_N[c] for c in axle.corners]))
+            notes.append(
+                f"the {axle.name} axle takes the whole load: without the wheelbase the "
+                "pitch couple between the axles is left out (give [car] wheelbase_mm)"
+            )
+        out[axle.name] = _AxleLoad(tyre * n / aero.down_N, tyre, routed, bolted)
+    if len(out) == 1 and layout.wheelbase_mm is not None:
+        other = 1.0 - next(iter(out.values())).share
         notes.append(
-            f"the {axle} axle takes the whole load: without the wheelbase the pitch couple "
-            "between the axles is left out (give wheelbase_mm)"
+            f"the other axle's tyres gain {other:+.0%} of the downforce, through its springs "
+            "the same bolted or routed: its quarter car does not change"
         )
-        return {axle: 1.0}
-    xa = _axle_x(design, corners)
-    other = xa - spec.wheelbase_mm if axle == "front" else xa + spec.wheelbase_mm
-    share = (x_cp - other) / (xa - other)
-    notes.append(
-        f"the other axle's springs carry {1.0 - share:+.0%} of the load, the same "
-        "bolted or routed: its quarter car does not change"
-    )
-    return {axle: share}
+    return out
 
 
 def _study_axle(
@@ -296,10 +364,9 @@ def _study_axle(
     spec: TradeoffSpec,
     axle: str,
     corners: tuple[str, ...],
-    share: float,
-    total_N: float,
-    delivered: dict[str, float],
+    load: _AxleLoad,
     speeds: Array,
+    ratio: dict[str, float],
 ) -> AxleStudy:
     design = analysis.design
     src = design.source
@@ -326,12 +393,12 @@ def _study_axle(
     added = float(np.mean([by_corner[c].kinetic_single_kg for c in corners]))
     static_added = float(np.mean([by_corner[c].static_share_kg for c in corners]))
     k_t = spec.tyre_rate_N_per_mm * 1e3
-    tyre_N = total_N * share / n
-    route_N = float(np.mean([delivered[c] for c in corners]))
+    share = load.share
     k_aero = spec.downforce_per_mm * 1e3 * share / n
     budget = spec.ride_height_budget_mm * 1e-3
     bump = _bump_travel(design, spec)
     top = float(speeds[-1])
+    follows = float(np.mean([ratio.get(c, 1.0) for c in corners]))
 
     def car(m_unsprung: float, rate: float, on: str) -> QuarterCar:
         c = 1e3 * (spec.damper_rate_N_s_per_mm or 0.0)
@@ -339,8 +406,11 @@ def _study_axle(
             c = 2.0 * spec.damping_ratio * math.sqrt(rate * m_s)
         return QuarterCar(m_s, m_unsprung, rate, c, k_t, k_aero, on)  # type: ignore[arg-type]
 
-    loads = {"bolted": (tyre_N, 0.0), "routed": (tyre_N - route_N, route_N)}
-    given = (spec.wheel_rate_N_per_mm or {}).get(axle)
+    loads = {
+        "bolted": (load.spring_bolted_N, 0.0),
+        "routed": (load.spring_routed_N, load.tyre_N - load.spring_routed_N),
+    }
+    given = {a.name: a.wheel_rate_N_per_mm for a in car_layout(design).axles}.get(axle)
     rates: dict[str, tuple[float, str]] = {}
     for name, m_unsprung, on in (("bolted", m_u, "sprung"), ("routed", m_u + added, "unsprung")):
         need = None
@@ -360,14 +430,23 @@ def _study_axle(
     cases = {
         name: _case(
             name, car(mu_c, rates[name][0], on), rates[name][1], loads[name], static_kg,
-            speeds, spec, bump,
+            speeds, spec, bump, 0.0 if name == "bolted" else follows,
         )
         for name, mu_c, on, static_kg in (
             ("bolted", m_u, "sprung", m_u),
             ("routed", m_u + added, "unsprung", m_u + static_added),
         )
     }  # fmt: skip
-    study = AxleStudy(axle, corners, share, added, spec.tyre_rate_N_per_mm, bump * 1e3, cases, "")
+    try:  # the added mass alone: routed unsprung mass on the bolted spring
+        alone = car(m_u + added, rates["bolted"][0], "unsprung")
+        v_top = top / 3.6
+        psd = velocity_psd_m2_s(class_mean_m3(spec.road_classes[0]), v_top)
+        mass_only: float | None = math.sqrt(mean_squares(alone, psd)["tyre_load"])
+    except Unstable:
+        mass_only = None
+    study = AxleStudy(
+        axle, corners, share, added, spec.tyre_rate_N_per_mm, bump * 1e3, cases, "", mass_only
+    )
     return AxleStudy(**{**study.__dict__, "sentence": _sentence(study, analysis, spec, speeds)})
 
 
@@ -398,9 +477,9 @@ def _choose_rate(
         if target is not None:
             return target, "target ride frequency"
         raise DesignFileError(
-            src, f"tradeoff.wheel_rate_{axle}_N_per_mm",
+            src, f"car.wheel_rate_{axle}_N_per_mm",
             "missing: the budget does not set the bolted wheel rate (the springs carry no "
-            "aero load)", f"add wheel_rate_{axle}_N_per_mm",
+            "aero load)", f"add wheel_rate_{axle}_N_per_mm under [car]",
         )  # fmt: skip
     if target is not None and (need is None or target >= need):
         return target, "target ride frequency"
@@ -430,7 +509,10 @@ def _case(
     speeds: Array,
     spec: TradeoffSpec,
     bump_m: float,
+    follows: float,
 ) -> CaseStudy:
+    """One case over the speeds; ``follows`` is the share of the wheel's motion the
+    element follows (0 bolted, the route ratio routed)."""
     top = float(speeds[-1])
     at_rest = QuarterCar(
         car0.sprung_kg, car0.unsprung_kg, car0.spring_N_m, car0.damper_N_s_m, car0.tyre_N_m
@@ -456,17 +538,21 @@ def _case(
             continue
         stable[i] = True
         drop[i], squeeze[i] = body * 1e3, (body - wheel) * 1e3
-        element[i] = (body if car.aero_on == "sprung" else wheel) * 1e3
+        element[i] = ((1.0 - follows) * body + follows * wheel) * 1e3
         v = v_kmh / 3.6
         band = band_limited_mean_squares(
             car, velocity_psd_m2_s(1.0, v), tuple(b * v for b in ISO_8608_BAND_CYCLES_PER_M)
+        )
+        height = combined_mean_square(
+            car,
+            velocity_psd_m2_s(1.0, v),
+            {"body_height": 1.0 - follows, "wheel_height": follows},
         )
         f_static = (car.sprung_kg + static_unsprung_kg) * STANDARD_GRAVITY_M_S2 + s_N + u_N
         for c in spec.road_classes:
             gd = class_mean_m3(c)
             tyre = math.sqrt(unit["tyre_load"] * gd)
             travel = math.sqrt(unit["travel"] * gd)
-            height = unit["body_height" if car.aero_on == "sprung" else "wheel_height"]
             out = classes[c]
             out["tyre_load_rms_N"][i] = tyre
             out["tyre_load_ratio"][i] = tyre / f_static
@@ -491,6 +577,7 @@ def _case(
         element_drop_mm=element,
         spring_compression_mm=squeeze,
         stable=stable,
+        follows_wheel=follows,
         car=car0,
         classes=classes,
     )
@@ -525,9 +612,15 @@ def _sentence(study: AxleStudy, analysis: Analysis, spec: TradeoffSpec, speeds: 
         rate = f"keeps the {study.axle} wheel rate at {kb:.0f} N/mm"
     change = tr / tb - 1.0
     verb = "rises" if change >= 0 else "falls"
+    size = f" {abs(change):.0%}"
+    if round(abs(change) * 100.0) == 0:
+        verb, size = "stays", " the same"
+    alone = ""
+    if study.tyre_load_rms_mass_only_N is not None and kr != kb:
+        alone = f", {study.tyre_load_rms_mass_only_N / tb - 1.0:+.0%} from the mass alone"
     return (
         f"on a class-{cls} road the routed {what} holds its height within ±{hr:.1f} mm "
-        f"against ±{hb:.1f} mm bolted and {rate}; tyre-load variation {verb} "
-        f"{abs(change):.0%} from the {study.added_unsprung_kg:.1f} kg added per corner "
-        f"(RMS at {speeds[-1]:.0f} km/h)"
+        f"against ±{hb:.1f} mm bolted and {rate}; tyre-load variation {verb}{size} "
+        f"with the {study.added_unsprung_kg:.1f} kg added per corner"
+        f"{alone} (RMS at {speeds[-1]:.0f} km/h)"
     )
