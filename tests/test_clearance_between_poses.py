@@ -32,11 +32,14 @@ GAP_MM = 34.0
 
 def _travel_only(steps: int) -> str:
     text = PLANAR.read_text()
-    return (
-        text[: text.index("[sweeps]")]
-        + f"[sweeps.travel]\nrange_mm = [-40.0, 40.0]\nsteps = {steps}\n"
-        + "[sweeps.heave]\nenabled = false\n[sweeps.pitch]\nenabled = false\n"
+    text = text.replace(
+        "[sweeps.travel]\nrange_mm = [-40.0, 40.0]\nsteps = 161",
+        f"[sweeps.travel]\nrange_mm = [-40.0, 40.0]\nsteps = {steps}",
     )
+    assert f"steps = {steps}\n" in text
+    for table in ("heave", "pitch"):
+        text = text.replace(f"[sweeps.{table}]\n", f"[sweeps.{table}]\nenabled = false\n", 1)
+    return text
 
 
 def _corner_case(steps: int = 9) -> tuple[str, dict[str, object]]:

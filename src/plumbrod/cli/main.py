@@ -63,6 +63,18 @@ def _silence_stdout() -> None:
         pass
 
 
+def _interrupted(exc: BaseException) -> bool:
+    """Whether a KeyboardInterrupt is the cause or context of ``exc``."""
+    seen: set[int] = set()
+    link: BaseException | None = exc
+    while link is not None and id(link) not in seen:
+        if isinstance(link, KeyboardInterrupt):
+            return True
+        seen.add(id(link))
+        link = link.__cause__ or link.__context__
+    return False
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Run one verb and return its exit code; errors become one line on stderr."""
     if sys.stdout is None:  # started with the standard output closed (`>&-`)
@@ -106,6 +118,12 @@ def main(argv: Sequence[str] | None = None) -> int:
             _silence_stdout()
         return EXIT_BAD_INPUT
     except KeyboardInterrupt:
+        print("plumbrod: interrupted", file=sys.stderr)
+        return 130
+    except Exception as exc:
+        if not _interrupted(exc):
+            raise
+        # Ctrl-C inside an import can come wrapped (e.g. a RuntimeError from __set_name__)
         print("plumbrod: interrupted", file=sys.stderr)
         return 130
     finally:
