@@ -48,7 +48,13 @@ CASES: dict[str, tuple[str, str, str, str, str]] = {
         "elements.splitter.cg_mm[2]",
         "-100 000 to 100 000 mm",
     ),
-    "OD 1e300": (SPLITTER, "od_mm = 16.0", "od_mm = 1e300", "rods.drop_left.od_mm", "0.5 to 500 mm"),
+    "OD 1e300": (
+        SPLITTER,
+        "od_mm = 16.0",
+        "od_mm = 1e300",
+        "rods.drop_left.od_mm",
+        "0.5 to 500 mm",
+    ),
     "solid OD 1e-300": (
         SPLITTER,
         TUBE,

@@ -4,7 +4,7 @@ y negated."""
 from __future__ import annotations
 
 from dataclasses import replace
-from typing import NoReturn
+from typing import NoReturn, cast
 
 from plumbrod.design.model import Design, Envelope, Pickup, Vec3, Wishbones, Zone
 from plumbrod.design.reader import Reader
@@ -12,6 +12,24 @@ from plumbrod.design.reader import Reader
 
 def _flip(point: Vec3) -> Vec3:
     return (point[0], -point[1], point[2])
+
+
+def _flip_optional(point: Vec3 | None) -> Vec3 | None:
+    return None if point is None else _flip(point)
+
+
+def _flip_wishbones(w: Wishbones) -> Wishbones:
+    """The mirror image of a corner's wishbone hardpoints (y negated)."""
+    return Wishbones(
+        upper_front_mm=_flip(w.upper_front_mm),
+        upper_rear_mm=_flip(w.upper_rear_mm),
+        upper_outer_mm=_flip(w.upper_outer_mm),
+        lower_front_mm=_flip(w.lower_front_mm),
+        lower_rear_mm=_flip(w.lower_rear_mm),
+        lower_outer_mm=_flip(w.lower_outer_mm),
+        tie_rod_inner_mm=_flip_optional(w.tie_rod_inner_mm),
+        tie_rod_outer_mm=_flip_optional(w.tie_rod_outer_mm),
+    )
 
 
 def _right(name: str) -> str:
@@ -35,13 +53,7 @@ def mirrored(design: Design, reader: Reader, pickup_where: dict[str, str]) -> De
             if any(c.name == new for c in corners):
                 fail_twice("corners", new)
             w = corner.wishbones
-            flipped_w = (
-                None
-                if w is None
-                else Wishbones(
-                    **{k: (None if v is None else _flip(v)) for k, v in w.__dict__.items()}
-                )
-            )
+            flipped_w = None if w is None else _flip_wishbones(w)
             corners.append(
                 replace(
                     corner,
@@ -126,22 +138,23 @@ def mirrored(design: Design, reader: Reader, pickup_where: dict[str, str]) -> De
 
 
 def _flip_zone_params(zone: Zone) -> dict[str, object]:
+    # The reader stored each zone's parameters with the types cast to here.
     p = dict(zone.params)
     if zone.kind == "box":
-        p["centre_mm"] = _flip(p["centre_mm"])  # type: ignore[arg-type]
-        rx, ry, rz = p["rotation_deg"]  # type: ignore[misc]
+        p["centre_mm"] = _flip(cast(Vec3, p["centre_mm"]))
+        rx, ry, rz = cast(Vec3, p["rotation_deg"])
         p["rotation_deg"] = (-rx, ry, -rz)
     elif zone.kind == "cylinder":
-        a, b = p["axis_mm"]  # type: ignore[misc]
+        a, b = cast(tuple[Vec3, Vec3], p["axis_mm"])
         p["axis_mm"] = (_flip(a), _flip(b))
     elif zone.kind == "prism":
         plane = p["plane"]
-        outline = p["outline_mm"]
+        outline = cast(tuple[tuple[float, float], ...], p["outline_mm"])
         if plane == "side":  # extruded along y: flip the depth range
-            d0, d1 = p["depth_mm"]  # type: ignore[misc]
+            d0, d1 = cast(tuple[float, float], p["depth_mm"])
             p["depth_mm"] = (-d1, -d0)
         elif plane == "front":  # [y, z] outline
-            p["outline_mm"] = tuple((-a, b) for a, b in outline)  # type: ignore[union-attr]
+            p["outline_mm"] = tuple((-u, v) for u, v in outline)
         else:  # top: [x, y]
-            p["outline_mm"] = tuple((a, -b) for a, b in outline)  # type: ignore[union-attr]
+            p["outline_mm"] = tuple((u, -v) for u, v in outline)
     return p
