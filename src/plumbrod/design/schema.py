@@ -80,6 +80,8 @@ class Key:
     missing: str = "add it"
     too_low: tuple[str, str] = ()  # type: ignore[assignment]
     shape: str = ""
+    open: bool = False
+    """A table whose keys its own reader checks (not listed here yet)."""
 
     @property
     def name(self) -> str:
@@ -127,6 +129,8 @@ KEYS: tuple[Key, ...] = (
     _k("load_cases", "named", "load cases; without them, two from top_speed_kmh"),
     _k("materials", "named", "materials added or overridden, by id"),
     _k("zones", "named", "keep-out solids fixed to the chassis"),
+    _k("tune", "table", "what plumbrod tune may move and must meet (read by design/tune_spec.py)",
+       open=True),
     # -- [design] -----------------------------------------------------------------
     _k("design.name", "string", "shown in every report", required=True,
        missing='add name = "..." under [design]'),
