@@ -19,6 +19,7 @@ from plumbrod.design.mirror import mirrored
 from plumbrod.design.model import Design
 from plumbrod.design.reader import BuildState
 from plumbrod.design.schema import children
+from plumbrod.design.tradeoff_spec import read_tradeoff
 
 TOP_LEVEL_KEYS = tuple(k.name for k in children(""))
 
@@ -52,6 +53,7 @@ def build_design(data: dict[str, Any], source: str) -> Design:
     materials = read_materials(s, data.get("materials", {}))
     load_cases = read_load_cases(s, data.get("load_cases", {}), elements)
     zones = read_zones(s, data.get("zones", {}))
+    tradeoff = read_tradeoff(data.get("tradeoff"), r)
 
     design = Design(
         name=name,
@@ -69,6 +71,7 @@ def build_design(data: dict[str, Any], source: str) -> Design:
         zones=tuple(zones),
         note=note,
         top_speed_kmh=top_speed,
+        tradeoff=tradeoff,
     )
     if mirror:
         design = mirrored(design, r, s.pickup_where)
