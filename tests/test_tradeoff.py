@@ -210,7 +210,8 @@ def test_aero_stiffness_lowers_the_body_frequency_and_can_go_unstable(
 ) -> None:
     # an aero stiffness is a negative spring: more downforce nearer the road softens the
     # mass that carries the element; beyond the springs in series it diverges
-    soft = _study(_with("wheelbase_mm = 2300.0", "wheelbase_mm = 2300.0\ndownforce_per_mm = 20.0"))
+    anchor = "target_ride_frequency_Hz = 2.0"  # a line of [tradeoff] only
+    soft = _study(_with(anchor, f"{anchor}\ndownforce_per_mm = 20.0"))
     plain = _study()
     for case in ("bolted", "routed"):
         assert soft.axles["front"].cases[case].stable.all()
@@ -219,8 +220,8 @@ def test_aero_stiffness_lowers_the_body_frequency_and_can_go_unstable(
             >= plain.axles["front"].cases[case].ride_height_drop_mm[-1] - 1e-9
         )
     text = _with(
-        "wheelbase_mm = 2300.0",
-        "wheelbase_mm = 2300.0\ndownforce_per_mm = 100.0\nwheel_rate_front_N_per_mm = 60.0",
+        anchor,
+        f"{anchor}\ndownforce_per_mm = 100.0\nwheel_rate_front_N_per_mm = 60.0",
     )
     path = tmp_path / "unstable.toml"
     path.write_text(text)

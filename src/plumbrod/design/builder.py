@@ -14,6 +14,7 @@ from plumbrod.design.build_setup import (
     read_sweeps,
     read_zones,
 )
+from plumbrod.design.car import car_layout, read_car, with_default_motion_centre
 from plumbrod.design.crosscheck import check_geometry, check_references
 from plumbrod.design.mirror import mirrored
 from plumbrod.design.model import Design
@@ -53,6 +54,7 @@ def build_design(data: dict[str, Any], source: str) -> Design:
     materials = read_materials(s, data.get("materials", {}))
     load_cases = read_load_cases(s, data.get("load_cases", {}), elements)
     zones = read_zones(s, data.get("zones", {}))
+    car = read_car(r, data.get("car", {}))
     tradeoff = read_tradeoff(data.get("tradeoff"), r)
 
     design = Design(
@@ -71,10 +73,13 @@ def build_design(data: dict[str, Any], source: str) -> Design:
         zones=tuple(zones),
         note=note,
         top_speed_kmh=top_speed,
+        car=car,
+        motion_centre_given="motion_centre_mm" in data.get("sweeps", {}),
         tradeoff=tradeoff,
     )
     if mirror:
         design = mirrored(design, r, s.pickup_where)
     check_references(s, design, mirror)
     check_geometry(s, design, mirror)
-    return design
+    car_layout(design)  # the corners make a two-axle car that agrees with [car]
+    return with_default_motion_centre(design)

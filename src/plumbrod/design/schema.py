@@ -131,6 +131,8 @@ KEYS: tuple[Key, ...] = (
     _k("zones", "named", "keep-out solids fixed to the chassis"),
     _k("tune", "table", "what plumbrod tune may move and must meet (read by design/tune_spec.py)",
        open=True),
+    _k("car", "table", "the car around the route: wheelbase, tracks, wheel rates, roll share "
+       "(read by design/car.py)", open=True),
     _k("tradeoff", "table",
        "quarter-car road study of plumbrod tradeoff (read by design/tradeoff_spec.py)",
        open=True),
