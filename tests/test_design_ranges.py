@@ -171,3 +171,39 @@ def test_out_of_range_number_gives_one_line_and_exit_2(name: str, tmp_path: Path
     assert f"{design}: {key}: " in lines[0], lines[0]
     assert bound in lines[0], lines[0]
     assert len(lines[0]) < 300, lines[0]
+
+
+COLUMN = ("--od", "16", "--wall", "1", "--length", "500", "--material", "4130-N")
+
+
+@pytest.mark.parametrize(
+    ("option", "value", "bound"),
+    [
+        ("--od", "1e300", "0.5 to 500 mm"),
+        ("--od", "1e-300", "0.5 to 500 mm"),
+        ("--length", "1e308", "1 to 200 000 mm"),
+        ("--k", "1e-300", "0.1 to 10"),
+        ("--load", "-1e30", "-10 000 000 to 10 000 000 N"),
+        ("--required", "1e9", "at most 1000"),
+    ],
+)
+def test_column_options_have_the_same_ranges(option: str, value: str, bound: str) -> None:
+    args = list(COLUMN)
+    if option in args:
+        args[args.index(option) + 1] = value
+    else:
+        args.append(f"{option}={value}")
+    if option == "--required":
+        args.append("--load=-1000")
+    done = subprocess.run(
+        [sys.executable, "-m", "plumbrod", "column", *args],
+        capture_output=True,
+        text=True,
+        env=_env(),
+        timeout=120,
+        check=False,
+    )
+    assert done.returncode == 2, (done.returncode, done.stderr)
+    lines = done.stderr.splitlines()
+    assert len(lines) == 1 and lines[0].startswith(f"plumbrod: error: {option}: "), done.stderr
+    assert bound in lines[0], lines[0]
