@@ -17,7 +17,7 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from plumbrod.kinematics.drives import chassis_motion
+from plumbrod.kinematics.drives import TravelDrive, chassis_motion
 from plumbrod.kinematics.linkage import Kinematics, Linkage
 from plumbrod.kinematics.routes import RouteMap
 from plumbrod.kinematics.sweeps import SweepResult
@@ -68,10 +68,10 @@ def ground_frame(result: SweepResult) -> tuple[Array, Array, Array, Array]:
     """The chassis pose in the ground frame at every pose, and its derivatives."""
     drive = result.spec.drive
     n = result.spec.size
-    if result.spec.is_travel:
+    if isinstance(drive, TravelDrive):  # the spec's is_travel
         eye = np.broadcast_to(np.eye(3), (n, 3, 3)).copy()
         return eye, np.zeros((n, 3)), np.zeros((n, 3, 3, 3)), np.zeros((n, 3, 3))
-    return chassis_motion(drive.parameters, np.array(drive.centre_mm))  # type: ignore[union-attr]
+    return chassis_motion(drive.parameters, np.array(drive.centre_mm))
 
 
 def route_ratios(link: Linkage, routes: RouteMap, result: SweepResult) -> dict[str, Array]:
