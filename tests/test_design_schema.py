@@ -53,6 +53,7 @@ def test_every_number_has_both_bounds_and_a_default_inside_them() -> None:
 
 def test_defaults_agree_with_the_model() -> None:
     limits = Limits()
+    assert {k.name for k in children("limits")} == {f.name for f in dataclasses.fields(Limits)}
     for key in children("limits"):
         assert key.default == getattr(limits, key.name), key.path
     sweeps = Sweeps()

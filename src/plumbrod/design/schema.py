@@ -336,6 +336,9 @@ KEYS: tuple[Key, ...] = (
     _k("limits.compliance_mm", "number",
        "largest element deflection under load (plumbrod's own default: choose yours)",
        unit="mm", default=1.0, maximum=1000.0, **_POSITIVE),
+    _k("limits.element_attitude_deg", "number",
+       "largest pitch change of an element in the body sweeps (plumbrod's own default: "
+       "choose yours)", unit="deg", default=0.5, maximum=90.0, **_POSITIVE),
     # -- [load_cases.<name>] ----------------------------------------------------------------
     _k("load_cases.*", "table", "one load case"),
     _k("load_cases.*.speed_kmh", "number", "for ½ρV²·S·C", unit="km/h", minimum=0.0,
