@@ -5,7 +5,7 @@ from __future__ import annotations
 
 from typing import Any
 
-from plumbrod.design.model import AeroData, Element, Envelope, Rod
+from plumbrod.design.model import AeroData, Element, Envelope, Rod, Strike
 from plumbrod.design.reader import BuildState, join_key, shown
 from plumbrod.design.schema import entry
 
@@ -37,6 +37,14 @@ def read_elements(s: BuildState, table: Any) -> list[Element]:
                 drag_coefficient=r.value(atable, akey, f"{path}.drag_coefficient"),
             )
         inertia = r.value(etable, key, "elements.*.inertia_kg_m2")
+        strike = None
+        if "strike" in etable:
+            skey = f"{key}.strike"
+            stable = r.table(etable["strike"], skey, "elements.*.strike")
+            strike = Strike(
+                force_N=r.value(stable, skey, "elements.*.strike.strike_N"),
+                at_mm=r.value(stable, skey, "elements.*.strike.at_mm"),
+            )
         envelope = None
         if "envelope" in etable:
             vkey = f"{key}.envelope"
@@ -58,6 +66,7 @@ def read_elements(s: BuildState, table: Any) -> list[Element]:
                 cg_mm=r.value(etable, key, "elements.*.cg_mm"),
                 centre_of_pressure_mm=r.value(etable, key, "elements.*.centre_of_pressure_mm"),
                 aero=aero,
+                strike=strike,
             )
         )
         s.add_pickups(name, etable["pickups"], f"{key}.pickups")

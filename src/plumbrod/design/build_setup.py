@@ -44,6 +44,9 @@ def read_sweeps(s: BuildState, table: Any, plane: str | None) -> Sweeps:
     if "heave_roll" in table:
         key = "sweeps.heave_roll"
         sub = r.table(table["heave_roll"], key, key)
+        path = "sweeps.heave_roll"
+        values["heave_roll_heave_mm"] = r.value(sub, key, f"{path}.range_heave_mm")
+        values["heave_roll_roll_deg"] = r.value(sub, key, f"{path}.range_roll_deg")
         steps = sub["steps"]
         if not isinstance(steps, list) or len(steps) != 2:
             r.fail(
@@ -67,11 +70,12 @@ def read_sweeps(s: BuildState, table: Any, plane: str | None) -> Sweeps:
         values["heave_roll_steps"] = grid
     values["motion_centre_mm"] = r.value(table, "sweeps", "sweeps.motion_centre_mm")
     sweeps = Sweeps(**values)
-    if sweeps.heave_roll_steps and (sweeps.heave_mm is None or sweeps.roll_deg is None):
+    if sweeps.heave_roll_steps and (sweeps.grid_heave_mm is None or sweeps.grid_roll_deg is None):
         r.fail(
             "sweeps.heave_roll",
             "the grid needs both the heave and the roll range",
-            "enable [sweeps.heave] and [sweeps.roll]",
+            "enable [sweeps.heave] and [sweeps.roll], or give range_heave_mm and "
+            "range_roll_deg under [sweeps.heave_roll]",
         )
     return sweeps
 
@@ -101,12 +105,31 @@ def read_load_cases(s: BuildState, table: Any, elements: list[Element]) -> list[
     r.named(table, "load_cases")
     names = [e.name for e in elements]
     force = entry("load_cases.*.forces_N.*")
+    point = entry("load_cases.*.at_mm.*")
     cases = []
     for cname, ctable in table.items():
         key = join_key("load_cases", cname)
         r.table(ctable, key, "load_cases.*")
         forces = ctable.get("forces_N", {})
         r.keys(forces, f"{key}.forces_N", names)
+        needs_speed = [e.name for e in elements if e.name not in forces and e.aero is not None]
+        if "speed_kmh" not in ctable and needs_speed:
+            r.fail(
+                f"{key}.speed_kmh",
+                "missing key",
+                f"add the speed in km/h for the aero data of '{needs_speed[0]}', "
+                "or give forces_N for every element",
+            )
+        at = ctable.get("at_mm", {})
+        r.keys(at, f"{key}.at_mm", names)
+        for e in at:
+            if e not in forces:
+                r.fail(
+                    f"{key}.at_mm.{e}",
+                    "a point without a force",
+                    f"give forces_N.{e} too, or remove the point (the aero force acts at "
+                    "the centre of pressure)",
+                )
         cases.append(
             LoadCase(
                 name=cname,
@@ -116,6 +139,7 @@ def read_load_cases(s: BuildState, table: Any, elements: list[Element]) -> list[
                 lateral_g=r.value(ctable, key, "load_cases.*.lateral_g"),
                 air_density_kg_m3=r.value(ctable, key, "load_cases.*.air_density_kg_m3"),
                 forces_N={e: r.read(v, f"{key}.forces_N.{e}", force) for e, v in forces.items()},
+                forces_at_mm={e: r.read(v, f"{key}.at_mm.{e}", point) for e, v in at.items()},
             )
         )
     return cases

@@ -42,9 +42,25 @@ NOTES: dict[str, str] = {
         "redundant rods when it is not."
     ),
     "sweeps": (
-        "Body poses are applied exactly: "
+        "`motion_centre_mm` is by default mid-wheelbase on the ground on the centre plane "
+        "when the wheelbase is known (from the corners or `[car]`), else the origin. A "
+        "body-sweep or grid pose that drives a wheel beyond the travel sweep's range gets a "
+        "warning in the report naming the pose and the wheel (and in the JSON's "
+        "`sweep_warnings`): the figures there rest on suspension travel the travel sweep "
+        "did not check. Body poses are applied exactly: "
         "`p_ground = Ry(pitch) · Rx(roll) · (p − c) + c + heave · z`, with `c` the "
         "motion centre."
+    ),
+    "elements.*.strike": (
+        "A ground strike is checked as its own load case `<element>-ground-strike`: "
+        "`strike_N` straight up at `at_mm`, on top of the aero loads at the highest speed "
+        "of the other cases and the weights. For a splitter or an undertray; the strike "
+        "force is common practice to confirm (measure or estimate it for your car), not a "
+        "figure plumbrod knows."
+    ),
+    "limits": (
+        "Defaults are common practice, except `compliance_mm` and `element_attitude_deg`: "
+        "plumbrod's own defaults, choose yours."
     ),
     "load_cases.*": (
         "Without `[load_cases]`, a design with `top_speed_kmh` gets two: `top-speed` and "
