@@ -11,6 +11,7 @@ from plumbrod.design.plausibility import unit_slips
 from plumbrod.mechanics.analysis import Analysis, analyse
 from plumbrod.mechanics.compliance import ComplianceReport, compliance_report
 from plumbrod.mechanics.mass import MassReport, mass_report
+from plumbrod.mechanics.springs import SpringLoads
 from plumbrod.mechanics.structure import RodReserve, rod_reserves
 from plumbrod.verdict.checks import CheckResult, evaluate_checks
 
@@ -36,6 +37,12 @@ class Findings:
         """``fail`` if any check fails, else ``warn`` if any warns, else ``pass``."""
         statuses = {c.status for c in self.checks}
         return "fail" if "fail" in statuses else "warn" if "warn" in statuses else "pass"
+
+    @property
+    def springs(self) -> SpringLoads | None:
+        """Spring-load changes per axle and corner, the bolted comparison, the floor and
+        each element's shares (DESIGN §5a); None without a load case."""
+        return self.analysis.springs
 
     def clearance_margin_mm(self, rod: str) -> float:
         """How much a rod's radius may grow before a clearance limit is reached (mm)."""
