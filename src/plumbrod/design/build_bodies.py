@@ -3,7 +3,7 @@ and [rockers.<name>] (with plate data)."""
 
 from __future__ import annotations
 
-from typing import Any
+from typing import Any, Literal, cast
 
 from plumbrod.design.model import (
     CHASSIS,
@@ -11,6 +11,7 @@ from plumbrod.design.model import (
     Corner,
     PlateSpec,
     Rocker,
+    Vec3,
     Wishbones,
 )
 from plumbrod.design.reader import BuildState, join_key, shown, sub, type_name
@@ -61,8 +62,10 @@ def read_corners(s: BuildState, table: Any) -> list[Corner]:
             ),
             required=("wheel_centre_mm", "tyre_radius_mm", "tyre_width_mm", "suspension"),
         )
-        suspension = r.string(
-            ctable["suspension"], f"{key}.suspension", ("slider", "double_wishbone")
+        # string() has checked that the value is one of the choices
+        suspension = cast(
+            Literal["slider", "double_wishbone"],
+            r.string(ctable["suspension"], f"{key}.suspension", ("slider", "double_wishbone")),
         )
         wishbones = None
         if suspension == "double_wishbone":
@@ -97,7 +100,7 @@ def read_corners(s: BuildState, table: Any) -> list[Corner]:
                 ctable["tyre_radius_mm"], f"{key}.tyre_radius_mm", positive=True
             ),
             tyre_width_mm=r.number(ctable["tyre_width_mm"], f"{key}.tyre_width_mm", positive=True),
-            suspension=suspension,  # type: ignore[arg-type]
+            suspension=suspension,
             wishbones=wishbones,
             unsprung_mass_kg=unsprung,
         )
@@ -149,9 +152,9 @@ def read_rockers(s: BuildState, table: Any, corners: list[Corner]) -> list[Rocke
         parent = r.string(rtable["parent"], f"{key}.parent")
         if r.plane:
             pivot = r.point(rtable["pivot_mm"], f"{key}.pivot_mm")
-            normal = [0.0, 0.0, 0.0]
-            normal[PLANE_NORMAL_AXIS[r.plane]] = 1.0
-            axis_a, axis_b = sub(pivot, tuple(normal)), pivot  # type: ignore[arg-type]
+            axis_n = PLANE_NORMAL_AXIS[r.plane]
+            normal: Vec3 = (float(axis_n == 0), float(axis_n == 1), float(axis_n == 2))
+            axis_a, axis_b = sub(pivot, normal), pivot
         else:
             axis = rtable["axis_mm"]
             if not isinstance(axis, list) or len(axis) != 2:

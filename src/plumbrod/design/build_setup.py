@@ -3,7 +3,7 @@
 
 from __future__ import annotations
 
-from typing import Any
+from typing import Any, Literal, cast
 
 from plumbrod.design.model import Element, Limits, LoadCase, MaterialSpec, Sweeps, Zone
 from plumbrod.design.reader import MIN_LENGTH_MM, BuildState, as3, join_key, norm, shown, sub
@@ -150,7 +150,11 @@ def read_zones(s: BuildState, table: Any) -> list[Zone]:
             r.keys(ztable, key, ())
         if "kind" not in ztable:
             r.fail(f"{key}.kind", "missing key", 'add kind = "box", "cylinder" or "prism"')
-        kind = r.string(ztable["kind"], f"{key}.kind", ("box", "cylinder", "prism"))
+        # string() has checked that the value is one of the choices
+        kind = cast(
+            Literal["box", "cylinder", "prism"],
+            r.string(ztable["kind"], f"{key}.kind", ("box", "cylinder", "prism")),
+        )
         shared = ("kind", "clearance_mm")
         params: dict[str, object] = {}
         if kind == "box":
@@ -219,5 +223,5 @@ def read_zones(s: BuildState, table: Any) -> list[Zone]:
         clearance = None
         if "clearance_mm" in ztable:
             clearance = r.number(ztable["clearance_mm"], f"{key}.clearance_mm", non_negative=True)
-        zones.append(Zone(zname, kind, params, clearance))  # type: ignore[arg-type]
+        zones.append(Zone(zname, kind, params, clearance))
     return zones
