@@ -279,7 +279,7 @@ class Linkage:
                 for b in range(self.n_bodies)
                 if np.any(self.point_body == b)
             ]
-        return self._cache["points_by_body"]  # type: ignore[return-value]
+        return self._cache["points_by_body"]
 
     def _homogeneous_points(self) -> tuple[Array, NDArray[np.intp], NDArray[np.intp]]:
         """Points as homogeneous columns (G, 4, np) and the gather indices of their body."""
