@@ -121,8 +121,8 @@ def applied_loads(
         e = elements.index(route.element)
         for body in route.bodies:
             owner_of_body.setdefault(body, e)
-        for rod in (*route.receiving_rods, *route.delivering_rods):
-            owner_of_rod.setdefault(rod, e)
+        for rod_name in (*route.receiving_rods, *route.delivering_rods):
+            owner_of_rod.setdefault(rod_name, e)
     carrier = element_of_body(design)  # elements and their equalisers
     for body, element in carrier.items():
         owner_of_body.setdefault(body, elements.index(element))
