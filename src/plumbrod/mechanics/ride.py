@@ -195,7 +195,7 @@ def state_space(car: QuarterCar) -> tuple[Array, Array, dict[str, Array]]:
 def lyapunov_mean_squares(car: QuarterCar, velocity_psd: float) -> dict[str, float]:
     """The same mean squares from the state covariance P, A P + P Aᵀ + B q Bᵀ = 0 with
     q = G_v/2 (scipy.linalg.solve_continuous_lyapunov)."""
-    from scipy.linalg import solve_continuous_lyapunov  # type: ignore[import-untyped]
+    from scipy.linalg import solve_continuous_lyapunov
 
     a, b, outputs = state_space(car)
     if np.max(np.linalg.eigvals(a).real) >= 0.0:
@@ -304,7 +304,7 @@ def simulate(car: QuarterCar, road_m: Array, dt_s: float) -> dict[str, Array]:
     The road is taken as periodic: the run goes round twice and returns the second
     lap, so the start-up transient is gone.
     """
-    from scipy.linalg import expm  # type: ignore[import-untyped]
+    from scipy.linalg import expm
 
     a, b, outputs = state_space(car)
     n = road_m.size
