@@ -54,8 +54,7 @@ def check_references(s: BuildState, design: Design, mirrored: bool) -> None:
             r.fail(
                 key,
                 f"'{rocker.parent}' is a rocker and cannot carry another rocker",
-                "mount rockers on the chassis, an upright, a wishbone or an element "
-                "(an equaliser)",
+                "mount rockers on the chassis, an upright, a wishbone or an element (an equaliser)",
             )
     names = list(design.pickups)
     for rod in design.rods:

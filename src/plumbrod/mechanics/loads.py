@@ -124,8 +124,8 @@ def applied_loads(
         for rod_name in (*route.receiving_rods, *route.delivering_rods):
             owner_of_rod.setdefault(rod_name, e)
     carrier = element_of_body(design)  # elements and their equalisers
-    for body, element in carrier.items():
-        owner_of_body.setdefault(body, elements.index(element))
+    for body, carried_by in carrier.items():
+        owner_of_body.setdefault(body, elements.index(carried_by))
     body_of = {key: p.body for key, p in design.pickups.items()}
     for rod in design.rods:  # rods inside a route, and guides
         for end in (rod.end_a, rod.end_b):
