@@ -16,6 +16,7 @@ from plumbrod.design.build_setup import (
 )
 from plumbrod.design.crosscheck import check_geometry, check_references
 from plumbrod.design.mirror import mirrored
+from plumbrod.design.mirror_checks import check_doubled_rods, check_left_side
 from plumbrod.design.model import Design, Plane
 from plumbrod.design.reader import BuildState
 
@@ -91,8 +92,12 @@ def build_design(data: dict[str, Any], source: str) -> Design:
         note=note,
         top_speed_kmh=top_speed,
     )
+    single = design
     if mirror:
+        check_left_side(design, r, s.pickup_where)
         design = mirrored(design, r, s.pickup_where)
     check_references(s, design, mirror)
+    if mirror:
+        check_doubled_rods(single, design, r)
     check_geometry(s, design, mirror)
     return design
