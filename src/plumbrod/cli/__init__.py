@@ -14,7 +14,9 @@ COMMAND_MODULES: tuple[str, ...] = (
     "plot",
     "column",
     "size",
+    "tune",
     "export",
+    "tradeoff",
     "new",
     "demo",
 )

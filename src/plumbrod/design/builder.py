@@ -19,6 +19,7 @@ from plumbrod.design.mirror import mirrored
 from plumbrod.design.mirror_checks import check_doubled_rods, check_left_side
 from plumbrod.design.model import Design, Plane
 from plumbrod.design.reader import BuildState
+from plumbrod.design.tradeoff_spec import read_tradeoff
 
 TOP_LEVEL_KEYS = (
     "design",
@@ -32,6 +33,8 @@ TOP_LEVEL_KEYS = (
     "load_cases",
     "materials",
     "zones",
+    "tune",
+    "tradeoff",
 )
 
 
@@ -74,6 +77,7 @@ def build_design(data: dict[str, Any], source: str) -> Design:
     materials = read_materials(s, data.get("materials", {}))
     load_cases = read_load_cases(s, data.get("load_cases", {}), elements)
     zones = read_zones(s, data.get("zones", {}))
+    tradeoff = read_tradeoff(data.get("tradeoff"), r)
 
     design = Design(
         name=name,
@@ -91,6 +95,7 @@ def build_design(data: dict[str, Any], source: str) -> Design:
         zones=tuple(zones),
         note=note,
         top_speed_kmh=top_speed,
+        tradeoff=tradeoff,
     )
     single = design
     if mirror:

@@ -14,6 +14,8 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Literal
 
+from plumbrod.design.tradeoff_spec import TradeoffSpec
+
 __all__ = [
     "CHASSIS",
     "AeroData",
@@ -272,6 +274,8 @@ class Design:
     note: str = ""
     top_speed_kmh: float | None = None
     """Speed of the default load cases when the design gives none."""
+    tradeoff: TradeoffSpec | None = None
+    """The ride study's inputs (``[tradeoff]``), when the design has them."""
 
     def corner(self, name: str) -> Corner:
         """The corner called ``name``."""
