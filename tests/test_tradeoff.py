@@ -16,7 +16,7 @@ from plumbrod.cli.main import main
 from plumbrod.design.loading import parse_design
 from plumbrod.mechanics.analysis import analyse
 from plumbrod.mechanics.mass import mass_report
-from plumbrod.mechanics.ride import mean_squares
+from plumbrod.mechanics.ride import QuarterCar, mean_squares
 from plumbrod.mechanics.road import class_mean_m3, velocity_psd_m2_s
 from plumbrod.verdict.tradeoff import TradeoffStudy, study_tradeoff
 
@@ -44,9 +44,13 @@ def test_example_front_axle_bookkeeping(study: TradeoffStudy) -> None:
     axle = study.axles["front"]
     assert list(study.axles) == ["front"]
     bolted, routed = axle.cases["bolted"], axle.cases["routed"]
-    # lever rule for a load ahead of the front axle (statics of a beam on two supports,
-    # Gere or Hibbeler, any edition): share = (WB + a)/WB, a = 600 mm, WB = 2300 mm
-    assert axle.load_share == pytest.approx((2300.0 + 600.0) / 2300.0, rel=1e-9)
+    # statics of the car on its two axles (a beam on two supports, Gere or Hibbeler, any
+    # edition; moments about the rear axle's ground line): the downforce F acts a = 600 mm
+    # ahead of the front axle of a WB = 2300 mm car, the drag D at h = 70 mm above the
+    # ground pitches the nose up: front share = (F·(WB + a) − D·h)/(WB·F)
+    q = 0.5 * 1.225 * 50.0**2
+    f, d = q * 0.6 * 1.2, q * 0.6 * 0.25
+    assert axle.load_share == pytest.approx((f * 2900.0 - d * 70.0) / (2300.0 * f), rel=1e-9)
     # Newton: the tyres carry the same load either way; the route only moves it off the
     # springs
     assert routed.sprung_load_N + routed.unsprung_load_N == pytest.approx(
@@ -73,9 +77,16 @@ def test_example_wheel_rates_meet_the_budget(study: TradeoffStudy) -> None:
     assert bolted.ride_height_drop_mm[-1] == pytest.approx(8.0, rel=1e-8)
     assert routed.ride_height_drop_mm[-1] <= 8.0 + 1e-9
     assert routed.wheel_rate_N_per_mm < bolted.wheel_rate_N_per_mm
-    # the routed element follows the wheel: it sinks only by the tyre's deflection
+    # the routed element follows the wheel by its route ratio R (near 1 here): it sinks by
+    # R × the tyre's deflection + (1 − R) × the body's drop
     total = routed.sprung_load_N + routed.unsprung_load_N
-    assert routed.element_drop_mm[-1] == pytest.approx(total / kt * 1e3, rel=1e-9)
+    r = routed.follows_wheel
+    assert r == pytest.approx(1.0, abs=0.05)
+    tyre_mm = total / kt * 1e3
+    assert routed.element_drop_mm[-1] == pytest.approx(
+        r * tyre_mm + (1.0 - r) * routed.ride_height_drop_mm[-1], rel=1e-9
+    )
+    assert bolted.follows_wheel == 0.0
 
 
 def test_example_figures_come_from_the_quarter_car(study: TradeoffStudy) -> None:
@@ -97,6 +108,21 @@ def test_example_verdict_sentence(study: TradeoffStudy) -> None:
     hr = study.axles["front"].cases["routed"].classes["A"]["element_height_rms_mm"][-1]
     assert f"±{hr:.1f} mm" in sentence
     assert "front wheel rate drop from" in sentence
+    # what the added mass alone does: the routed unsprung mass on the bolted spring
+    axle = study.axles["front"]
+    b, r = axle.cases["bolted"], axle.cases["routed"]
+    alone = QuarterCar(
+        b.sprung_mass_kg,
+        r.unsprung_mass_kg,
+        b.wheel_rate_N_per_mm * 1e3,
+        b.damper_N_s_per_mm * 1e3,
+        250e3,
+    )
+    psd = velocity_psd_m2_s(class_mean_m3("A"), 50.0)
+    rms = math.sqrt(mean_squares(alone, psd)["tyre_load"])
+    assert axle.tyre_load_rms_mass_only_N == pytest.approx(rms, rel=1e-9)
+    assert rms > b.classes["A"]["tyre_load_rms_N"][-1]  # more unsprung mass, more variation
+    assert f"{rms / b.classes['A']['tyre_load_rms_N'][-1] - 1:+.0%} from the mass alone" in sentence
 
 
 def test_command_writes_json_and_csv_with_the_published_names(tmp_path: Path) -> None:
@@ -184,7 +210,8 @@ def test_aero_stiffness_lowers_the_body_frequency_and_can_go_unstable(
 ) -> None:
     # an aero stiffness is a negative spring: more downforce nearer the road softens the
     # mass that carries the element; beyond the springs in series it diverges
-    soft = _study(_with("wheelbase_mm = 2300.0", "wheelbase_mm = 2300.0\ndownforce_per_mm = 20.0"))
+    anchor = "target_ride_frequency_Hz = 2.0"  # a line of [tradeoff] only
+    soft = _study(_with(anchor, f"{anchor}\ndownforce_per_mm = 20.0"))
     plain = _study()
     for case in ("bolted", "routed"):
         assert soft.axles["front"].cases[case].stable.all()
@@ -193,8 +220,8 @@ def test_aero_stiffness_lowers_the_body_frequency_and_can_go_unstable(
             >= plain.axles["front"].cases[case].ride_height_drop_mm[-1] - 1e-9
         )
     text = _with(
-        "wheelbase_mm = 2300.0",
-        "wheelbase_mm = 2300.0\ndownforce_per_mm = 100.0\nwheel_rate_front_N_per_mm = 60.0",
+        anchor,
+        f"{anchor}\ndownforce_per_mm = 100.0\nwheel_rate_front_N_per_mm = 60.0",
     )
     path = tmp_path / "unstable.toml"
     path.write_text(text)
@@ -214,3 +241,23 @@ def test_aero_stiffness_lowers_the_body_frequency_and_can_go_unstable(
 def test_demo_prints_the_verdict(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
     assert main(["demo", "--output-dir", str(tmp_path)]) == 0
     assert "on a class-A road the routed splitter" in capsys.readouterr().out
+
+
+@pytest.mark.parametrize(
+    "name", ["hillclimb_splitter", "failing_short_lever", "student_rear_wing", "planar_undertray"]
+)
+def test_every_example_runs(name: str, tmp_path: Path) -> None:
+    out = tmp_path / "t.json"
+    assert main(["tradeoff", str(ROOT / "examples" / f"{name}.toml"), "--json", str(out)]) == 0
+    doc = json.loads(out.read_text())
+    shares = [a["load_share"] for a in doc["axles"].values()]
+    if len(shares) == 2:
+        # lever rule, both axles in the design: the shares add up to the whole load
+        assert sum(shares) == pytest.approx(1.0, rel=1e-12)
+    for axle in doc["axles"].values():
+        # the routed element rides on the wheel, the bolted one on the body
+        assert (
+            axle["routed"]["element_height_rms_mm"][-1]
+            < axle["bolted"]["element_height_rms_mm"][-1]
+        )
+        assert axle["verdict"].startswith("on a class-A road")

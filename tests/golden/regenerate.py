@@ -16,7 +16,13 @@ from pathlib import Path
 
 ROOT = Path(__file__).resolve().parents[2]
 HERE = Path(__file__).resolve().parent
-EXAMPLES = ("failing_short_lever", "hillclimb_splitter", "planar_undertray", "student_rear_wing")
+EXAMPLES = (
+    "failing_short_lever",
+    "hillclimb_splitter",
+    "planar_undertray",
+    "student_rear_wing",
+    "tune_splitter",
+)
 
 
 def digest(name: str) -> str:

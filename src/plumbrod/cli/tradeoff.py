@@ -13,7 +13,7 @@ import sys
 from pathlib import Path
 from typing import Any
 
-from plumbrod.outputs.cautions import CAUTION
+from plumbrod.outputs.cautions import CAUTION, RIDE_CAUTION
 
 __all__ = ["register", "run"]
 
@@ -32,7 +32,7 @@ def register(subparsers: Any) -> None:
             "Idealised: linear, straight line, one road class at a time. Exit 0 when the "
             "study ran, 2 on bad input."
         ),
-        epilog=CAUTION,
+        epilog=f"{RIDE_CAUTION} {CAUTION}",
     )
     parser.add_argument("design", help="design file (TOML) with a [tradeoff] table")
     parser.add_argument(

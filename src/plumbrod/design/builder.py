@@ -14,6 +14,7 @@ from plumbrod.design.build_setup import (
     read_sweeps,
     read_zones,
 )
+from plumbrod.design.car import car_layout, read_car, with_default_motion_centre
 from plumbrod.design.crosscheck import check_geometry, check_references
 from plumbrod.design.mirror import mirrored
 from plumbrod.design.mirror_checks import check_doubled_rods, check_left_side
@@ -34,6 +35,7 @@ TOP_LEVEL_KEYS = (
     "materials",
     "zones",
     "tune",
+    "car",
     "tradeoff",
 )
 
@@ -77,6 +79,7 @@ def build_design(data: dict[str, Any], source: str) -> Design:
     materials = read_materials(s, data.get("materials", {}))
     load_cases = read_load_cases(s, data.get("load_cases", {}), elements)
     zones = read_zones(s, data.get("zones", {}))
+    car = read_car(r, data.get("car", {}))
     tradeoff = read_tradeoff(data.get("tradeoff"), r)
 
     design = Design(
@@ -95,6 +98,8 @@ def build_design(data: dict[str, Any], source: str) -> Design:
         zones=tuple(zones),
         note=note,
         top_speed_kmh=top_speed,
+        car=car,
+        motion_centre_given="motion_centre_mm" in data.get("sweeps", {}),
         tradeoff=tradeoff,
     )
     single = design
@@ -105,4 +110,5 @@ def build_design(data: dict[str, Any], source: str) -> Design:
     if mirror:
         check_doubled_rods(single, design, r)
     check_geometry(s, design, mirror)
-    return design
+    car_layout(design)  # the corners make a two-axle car that agrees with [car]
+    return with_default_motion_centre(design)

@@ -32,6 +32,7 @@ from plumbrod.mechanics.redundancy import (
     redundancy_summary,
     rod_stiffness,
 )
+from plumbrod.mechanics.springs import SpringLoads, spring_loads
 from plumbrod.mechanics.statics import Statics, solve_statics
 
 __all__ = ["Analysis", "analyse"]
@@ -53,9 +54,11 @@ class Analysis:
     loads: AppliedLoads | None
     """None when the design has no load case (no aero data or top speed)."""
     statics: dict[str, Statics]
-    springs: ElasticSetup | None = None
-    """The rods solved as springs when the design is located redundantly (DESIGN §4a);
-    their fight forces are in every load case's rod forces."""
+    springs: SpringLoads | None = None
+    """Spring-load changes (DESIGN §5a); None without a load case."""
+    elastic: ElasticSetup | None = None
+    """The rods solved as springs k = EA/L when the design is located redundantly
+    (DESIGN §4a); their fight forces are in ``rod_force_N``."""
 
     def rod_force_N(self, sweep: str) -> Array:
         """(B, K, nr) every link rod's force per load case in a sweep (+ tension): the
@@ -70,7 +73,7 @@ class Analysis:
     @property
     def redundancy(self) -> Redundancy | None:
         """Fight forces and mismatch of a redundantly located design, else None."""
-        return redundancy_summary(self.link, self.springs, self.sweeps)
+        return redundancy_summary(self.link, self.elastic, self.sweeps)
 
 
 def locate(design: Design) -> tuple[Linkage, Mobility, RouteMap]:
@@ -105,8 +108,8 @@ def analyse(design: Design) -> Analysis:
     """Locate, solve every sweep, compute the kinematic figures and the statics."""
     members = resolve_members(design)
     link, mobility, routes = locate(design)
-    springs = elastic_setup(link, rod_stiffness(link, members)) if mobility.redundant else None
-    sweeps = run_sweeps(link, design.sweeps, springs)
+    elastic = elastic_setup(link, rod_stiffness(link, members)) if mobility.redundant else None
+    sweeps = run_sweeps(link, design.sweeps, elastic)
     figures = {name: sweep_figures(link, routes, res) for name, res in sweeps.items()}
     cases = design_load_cases(design)
     loads = applied_loads(design, link, members, routes, cases) if cases else None
@@ -117,6 +120,11 @@ def analyse(design: Design) -> Analysis:
             name: solve_statics(link, routes, members, loads, res) for name, res in sweeps.items()
         }
     )
+    springs = (
+        None
+        if loads is None or not statics
+        else spring_loads(link, routes, members, loads, sweeps, statics)
+    )
     return Analysis(
-        design, link, mobility, routes, sweeps, figures, members, loads, statics, springs
+        design, link, mobility, routes, sweeps, figures, members, loads, statics, springs, elastic
     )

@@ -19,20 +19,10 @@ from typing import Any
 
 import numpy as np
 
-from plumbrod.outputs.cautions import CAUTION
+from plumbrod.outputs.cautions import CAUTION, RIDE_CAUTION
 from plumbrod.verdict.tradeoff import CASES, FIGURES, AxleStudy, CaseStudy, TradeoffStudy
 
 __all__ = ["RIDE_CAUTION", "study_csv", "study_json", "study_text"]
-
-RIDE_CAUTION = (
-    "Ride study: an idealised linear quarter car per axle (linear spring, damper and "
-    "tyre; the tyre never leaves the road; no bump stop, no friction), driven in a "
-    "straight line (no roll, pitch or load transfer between the axles), on one ISO 8608 "
-    "road class at a time with the left and right tracks uncorrelated; the probabilities "
-    "assume Gaussian responses. Use it to compare bolted with routed, not as a lap-time "
-    "or durability prediction; many series ban aero devices mounted to move with the "
-    "suspension."
-)
 
 _SHOWN = (
     ("element_height_rms_mm", "element height RMS, mm", "{:.2f}"),
@@ -63,6 +53,7 @@ def _case_json(case: CaseStudy, first: str) -> dict[str, Any]:
         "sprung_mass_kg": case.sprung_mass_kg,
         "unsprung_mass_kg": case.unsprung_mass_kg,
         "damper_N_s_per_mm": case.damper_N_s_per_mm,
+        "element_follows_wheel": case.follows_wheel,
         "body_frequency_Hz": case.body_frequency_Hz,
         "wheel_hop_frequency_Hz": case.wheel_hop_frequency_Hz,
         "sprung_aero_load_top_speed_N": case.sprung_load_N,
@@ -159,7 +150,7 @@ def _axle_text(axle: AxleStudy, study: TradeoffStudy) -> list[str]:
         lines.append(f"  {label:34}{show(vb):>12}{show(vr):>12}")
 
     row("wheel rate, N/mm", "{:.1f}", b.wheel_rate_N_per_mm, r.wheel_rate_N_per_mm)
-    lines.append(f"  {'  set by':34}{b.rate_from:>12}{r.rate_from:>12}")
+    lines.append(f"    (set by: bolted {b.rate_from}, routed {r.rate_from})")
     row("damper at the wheel, N·s/mm", "{:.2f}", b.damper_N_s_per_mm, r.damper_N_s_per_mm)
     row("sprung / unsprung mass, kg", "{:.1f}", b.sprung_mass_kg, r.sprung_mass_kg)
     row("", "{:.1f}", b.unsprung_mass_kg, r.unsprung_mass_kg)
@@ -175,6 +166,7 @@ def _axle_text(axle: AxleStudy, study: TradeoffStudy) -> list[str]:
         r.ride_height_drop_mm[top],
     )
     row("element drop, mm", "{:.2f}", b.element_drop_mm[top], r.element_drop_mm[top])
+    row("element follows the wheel by", "{:.2f}", b.follows_wheel, r.follows_wheel)
     for cls in study.road_classes:
         lines.append(f"  class {cls} road, at {speed:.0f} km/h:")
         for key, label, fmt in _SHOWN:

@@ -26,6 +26,7 @@ from plumbrod.design.model import Design, LoadCase
 from plumbrod.design.tradeoff_spec import TradeoffSpec
 from plumbrod.errors import DesignFileError
 from plumbrod.kinematics.drives import TravelDrive
+from plumbrod.kinematics.figures import route_ratios
 from plumbrod.kinematics.sweeps import SweepSpec, run_sweep
 from plumbrod.mechanics.analysis import Analysis
 from plumbrod.mechanics.loads import STANDARD_GRAVITY_M_S2, applied_loads
@@ -34,6 +35,7 @@ from plumbrod.mechanics.ride import (
     QuarterCar,
     Unstable,
     band_limited_mean_squares,
+    combined_mean_square,
     gaussian_exceedance,
     mean_squares,
     natural_frequencies_Hz,
@@ -89,6 +91,8 @@ class CaseStudy:
     element_drop_mm: Array
     spring_compression_mm: Array
     stable: NDArray[np.bool_]
+    follows_wheel: float
+    """Share of the wheel's motion the element follows (0 bolted; the route ratio)."""
     car: QuarterCar
     """The quarter car at top speed (SI units), for a time simulation."""
     classes: dict[str, dict[str, Array]]
@@ -107,6 +111,9 @@ class AxleStudy:
     bump_travel_mm: float
     cases: dict[str, CaseStudy]
     sentence: str
+    tyre_load_rms_mass_only_N: float | None = None
+    """Tyre-load RMS at top speed on the first class with the routed unsprung mass on the
+    bolted spring and damper: what the added mass alone does."""
 
 
 @dataclass(frozen=True)
@@ -148,9 +155,23 @@ def _axle_x(design: Design, corners: tuple[str, ...]) -> float:
     return float(np.mean([design.corner(c).wheel_centre_mm[0] for c in corners]))
 
 
-def _aero_at_top(analysis: Analysis, top_kmh: float) -> tuple[float, float, dict[str, float]]:
-    """The elements' vertical aero load at top speed (N, + = down), its centre's x (mm),
-    and the part each corner's tyre receives through the routes (N, + = down)."""
+@dataclass(frozen=True)
+class _Aero:
+    """The elements' aero loads at top speed, at the design pose."""
+
+    down_N: float
+    """Vertical load, + = down (N)."""
+    x_mm: float
+    """x of its line of action (mm)."""
+    drag_moment_Nmm: float
+    """Σ drag × height above the ground (N·mm): the pitch moment that loads the rear."""
+    delivered_N: dict[str, float]
+    """What each corner's tyre receives through the routes (N, + = down)."""
+    route_ratio: dict[str, float]
+    """Each corner's mean route ratio."""
+
+
+def _aero_at_top(analysis: Analysis, top_kmh: float) -> _Aero:
     design, link = analysis.design, analysis.link
     nc = len(link.corner_names)
     spec = SweepSpec("design", TravelDrive(np.zeros((1, nc))), {"travel_mm": np.zeros(1)})
@@ -160,10 +181,18 @@ def _aero_at_top(analysis: Analysis, top_kmh: float) -> tuple[float, float, dict
     statics = solve_statics(link, analysis.routes, analysis.members, loads, result)
     contact = statics.contact_force_N[0, 0] - statics.contact_force_N[0, 1]
     aero = [i for i, label in enumerate(loads.labels) if label.endswith(" aero")]
-    down = -(loads.force_N[0, aero, 2] - loads.force_N[1, aero, 2])
+    force = loads.force_N[0, aero] - loads.force_N[1, aero]
+    down = -force[:, 2]
     total = float(down.sum())
     x = float(np.sum(down * loads.point_mm[aero, 0]) / total) if total else 0.0
-    return total, x, {name: float(contact[c]) for c, name in enumerate(link.corner_names)}
+    ground = float(np.mean([c.wheel_centre_mm[2] - c.tyre_radius_mm for c in design.corners]))
+    drag = float(np.sum(-force[:, 0] * (loads.point_mm[aero, 2] - ground)))
+    ratios = route_ratios(link, analysis.routes, result)
+    by_corner: dict[str, list[float]] = {}
+    for route in analysis.routes.routes:
+        by_corner.setdefault(route.corner, []).append(float(ratios[route.name][0]))
+    delivered = {name: float(contact[c]) for c, name in enumerate(link.corner_names)}
+    return _Aero(total, x, drag, delivered, {c: float(np.mean(v)) for c, v in by_corner.items()})
 
 
 # -- wheel rates -------------------------------------------------------------------
@@ -231,7 +260,8 @@ def study_tradeoff(analysis: Analysis, mass: MassReport) -> TradeoffStudy:
             src, "design.top_speed_kmh", "missing: the study sweeps speeds up to top speed",
             "add top_speed_kmh under [design]",
         )  # fmt: skip
-    total_N, x_cp, delivered = _aero_at_top(analysis, top)
+    aero = _aero_at_top(analysis, top)
+    total_N, delivered, ratio = aero.down_N, aero.delivered_N, aero.route_ratio
     if total_N <= 0.0:
         raise DesignFileError(
             src, f"elements.{design.elements[0].name}.aero",
@@ -240,14 +270,32 @@ def study_tradeoff(analysis: Analysis, mass: MassReport) -> TradeoffStudy:
         )  # fmt: skip
     groups = axle_groups(design)
     notes: list[str] = []
-    shares = _lever_shares(design, spec, groups, x_cp, notes)
+    shares = _lever_shares(design, spec, groups, aero, notes)
     speeds = top * np.arange(1, spec.speed_steps + 1) / spec.speed_steps
     axles = {
         axle: _study_axle(
-            analysis, mass, spec, axle, corners, shares[axle], total_N, delivered, speeds
+            analysis,
+            mass,
+            spec,
+            axle,
+            corners,
+            shares[axle],
+            total_N,
+            delivered,
+            speeds,
+            ratio,
         )
         for axle, corners in groups.items()
     }
+    for axle in axles.values():
+        bolted = axle.cases["bolted"]
+        sink = float(bolted.ride_height_drop_mm[-1])
+        if bolted.rate_from == "given" and sink > spec.ride_height_budget_mm * (1 + 1e-9):
+            notes.append(
+                f"bolted, the {axle.axle} springs at {bolted.wheel_rate_N_per_mm:g} N/mm let "
+                f"the body sink {sink:.1f} mm at {top:g} km/h, beyond the "
+                f"{spec.ride_height_budget_mm:g} mm budget"
+            )
     return TradeoffStudy(
         design=design.name,
         source=src,
@@ -265,13 +313,19 @@ def _lever_shares(
     design: Design,
     spec: TradeoffSpec,
     groups: dict[str, tuple[str, ...]],
-    x_cp: float,
+    aero: _Aero,
     notes: list[str],
 ) -> dict[str, float]:
-    """Each axle's share of the vertical load (statics of the car on its two axles)."""
+    """Each axle's share of the vertical load: statics of the car on its two axles, the
+    drag's pitch moment included (moments about the other axle's ground line)."""
+
+    def share(x_axle: float, x_other: float) -> float:
+        moment = aero.down_N * (aero.x_mm - x_other) - aero.drag_moment_Nmm
+        return moment / (x_axle - x_other) / aero.down_N
+
     if len(groups) == 2:
         xf, xr = _axle_x(design, groups["front"]), _axle_x(design, groups["rear"])
-        front = (x_cp - xr) / (xf - xr)
+        front = share(xf, xr)
         return {"front": front, "rear": 1.0 - front}
     (axle, corners), = groups.items()  # fmt: skip
     if spec.wheelbase_mm is None:
@@ -282,12 +336,12 @@ def _lever_shares(
         return {axle: 1.0}
     xa = _axle_x(design, corners)
     other = xa - spec.wheelbase_mm if axle == "front" else xa + spec.wheelbase_mm
-    share = (x_cp - other) / (xa - other)
+    mine = share(xa, other)
     notes.append(
-        f"the other axle's springs carry {1.0 - share:+.0%} of the load, the same "
+        f"the other axle's springs carry {1.0 - mine:+.0%} of the downforce, the same "
         "bolted or routed: its quarter car does not change"
     )
-    return {axle: share}
+    return {axle: mine}
 
 
 def _study_axle(
@@ -300,6 +354,7 @@ def _study_axle(
     total_N: float,
     delivered: dict[str, float],
     speeds: Array,
+    ratio: dict[str, float],
 ) -> AxleStudy:
     design = analysis.design
     src = design.source
@@ -332,6 +387,7 @@ def _study_axle(
     budget = spec.ride_height_budget_mm * 1e-3
     bump = _bump_travel(design, spec)
     top = float(speeds[-1])
+    follows = float(np.mean([ratio.get(c, 1.0) for c in corners]))
 
     def car(m_unsprung: float, rate: float, on: str) -> QuarterCar:
         c = 1e3 * (spec.damper_rate_N_s_per_mm or 0.0)
@@ -360,14 +416,23 @@ def _study_axle(
     cases = {
         name: _case(
             name, car(mu_c, rates[name][0], on), rates[name][1], loads[name], static_kg,
-            speeds, spec, bump,
+            speeds, spec, bump, 0.0 if name == "bolted" else follows,
         )
         for name, mu_c, on, static_kg in (
             ("bolted", m_u, "sprung", m_u),
             ("routed", m_u + added, "unsprung", m_u + static_added),
         )
     }  # fmt: skip
-    study = AxleStudy(axle, corners, share, added, spec.tyre_rate_N_per_mm, bump * 1e3, cases, "")
+    try:  # the added mass alone: routed unsprung mass on the bolted spring
+        alone = car(m_u + added, rates["bolted"][0], "unsprung")
+        v_top = top / 3.6
+        psd = velocity_psd_m2_s(class_mean_m3(spec.road_classes[0]), v_top)
+        mass_only: float | None = math.sqrt(mean_squares(alone, psd)["tyre_load"])
+    except Unstable:
+        mass_only = None
+    study = AxleStudy(
+        axle, corners, share, added, spec.tyre_rate_N_per_mm, bump * 1e3, cases, "", mass_only
+    )
     return AxleStudy(**{**study.__dict__, "sentence": _sentence(study, analysis, spec, speeds)})
 
 
@@ -430,7 +495,10 @@ def _case(
     speeds: Array,
     spec: TradeoffSpec,
     bump_m: float,
+    follows: float,
 ) -> CaseStudy:
+    """One case over the speeds; ``follows`` is the share of the wheel's motion the
+    element follows (0 bolted, the route ratio routed)."""
     top = float(speeds[-1])
     at_rest = QuarterCar(
         car0.sprung_kg, car0.unsprung_kg, car0.spring_N_m, car0.damper_N_s_m, car0.tyre_N_m
@@ -456,17 +524,21 @@ def _case(
             continue
         stable[i] = True
         drop[i], squeeze[i] = body * 1e3, (body - wheel) * 1e3
-        element[i] = (body if car.aero_on == "sprung" else wheel) * 1e3
+        element[i] = ((1.0 - follows) * body + follows * wheel) * 1e3
         v = v_kmh / 3.6
         band = band_limited_mean_squares(
             car, velocity_psd_m2_s(1.0, v), tuple(b * v for b in ISO_8608_BAND_CYCLES_PER_M)
+        )
+        height = combined_mean_square(
+            car,
+            velocity_psd_m2_s(1.0, v),
+            {"body_height": 1.0 - follows, "wheel_height": follows},
         )
         f_static = (car.sprung_kg + static_unsprung_kg) * STANDARD_GRAVITY_M_S2 + s_N + u_N
         for c in spec.road_classes:
             gd = class_mean_m3(c)
             tyre = math.sqrt(unit["tyre_load"] * gd)
             travel = math.sqrt(unit["travel"] * gd)
-            height = unit["body_height" if car.aero_on == "sprung" else "wheel_height"]
             out = classes[c]
             out["tyre_load_rms_N"][i] = tyre
             out["tyre_load_ratio"][i] = tyre / f_static
@@ -491,6 +563,7 @@ def _case(
         element_drop_mm=element,
         spring_compression_mm=squeeze,
         stable=stable,
+        follows_wheel=follows,
         car=car0,
         classes=classes,
     )
@@ -525,9 +598,12 @@ def _sentence(study: AxleStudy, analysis: Analysis, spec: TradeoffSpec, speeds: 
         rate = f"keeps the {study.axle} wheel rate at {kb:.0f} N/mm"
     change = tr / tb - 1.0
     verb = "rises" if change >= 0 else "falls"
+    alone = ""
+    if study.tyre_load_rms_mass_only_N is not None and kr != kb:
+        alone = f", {study.tyre_load_rms_mass_only_N / tb - 1.0:+.0%} from the mass alone"
     return (
         f"on a class-{cls} road the routed {what} holds its height within ±{hr:.1f} mm "
         f"against ±{hb:.1f} mm bolted and {rate}; tyre-load variation {verb} "
-        f"{abs(change):.0%} from the {study.added_unsprung_kg:.1f} kg added per corner "
-        f"(RMS at {speeds[-1]:.0f} km/h)"
+        f"{abs(change):.0%} with the {study.added_unsprung_kg:.1f} kg added per corner"
+        f"{alone} (RMS at {speeds[-1]:.0f} km/h)"
     )
