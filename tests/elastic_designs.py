@@ -1,7 +1,8 @@
 """Invented test fixture for the elastic solution of redundant location: a rigid beam
-hung from three slider uprights by one vertical rod each (side view), with a horizontal
-guide to the chassis.  Three vertical rods hold the beam's height and pitch: one more
-than it needs.  Moving the uprights by unequal travels moves the rods' supports."""
+hung by three vertical rods (side view), a and b from the front slider upright, c from
+the rear one, with a horizontal guide to the chassis.  Three vertical rods hold the
+beam's height and pitch: one more than it needs.  Moving the two uprights by unequal
+travels moves the rods' supports: a and b together, c on its own."""
 
 from __future__ import annotations
 
@@ -44,17 +45,20 @@ def beam_text(
         f"guide = [700.0, {Z_BEAM}]",
         "",
     ]
-    for i, (name, x) in enumerate(zip("abc", X_MM, strict=True)):
+    for corner, wheel_x, tops in (("front", 0.0, "ab"), ("rear", 400.0, "c")):
         out += [
-            f"[corners.{name}]",
-            f"wheel_centre_mm = [{x}, 300.0]",
+            f"[corners.{corner}]",
+            f"wheel_centre_mm = [{wheel_x}, 300.0]",
             "tyre_radius_mm = 300.0",
             "tyre_width_mm = 200.0",
             'suspension = "slider"',
             "",
-            f"[corners.{name}.pickups.upright]",
-            f"top = [{x}, {Z_BEAM + LENGTH_MM}]",
+            f"[corners.{corner}.pickups.upright]",
+            *(f"top_{n} = [{X_MM['abc'.index(n)]}, {Z_BEAM + LENGTH_MM}]" for n in tops),
             "",
+        ]
+    for i in range(3):
+        out += [
             f"[materials.m{i}]",
             f"modulus_MPa = {moduli_MPa[i]!r}",
             "yield_MPa = 435.0",
@@ -79,7 +83,7 @@ def beam_text(
         od, wall = sections[i]
         out += [
             f"[rods.{name}]",
-            f'ends = ["{name}.upright.top", "beam.{name}"]',
+            f'ends = ["{"rear" if name == "c" else "front"}.upright.top_{name}", "beam.{name}"]',
             f'material = "m{i}"',
             f"od_mm = {od!r}",
             f"wall_mm = {wall!r}",
@@ -113,13 +117,16 @@ def stiffness_of(design: Design, link: Linkage) -> Array:
 
 
 def solve_moved(text: str, moves_mm: Array) -> tuple[Design, Linkage, SweepResult]:
-    """Solve the beam elastically with each upright moved up by ``moves_mm`` (B, 3)."""
+    """Solve the beam elastically with the supports of rods a, b, c moved up by
+    ``moves_mm`` (B, 3); a and b share the front upright, so their moves are equal."""
     design = parse_design(text, "beam on three rods")
     link = build_linkage(design)
     springs = elastic_setup(link, rod_stiffness(link, resolve_members(design)))
     assert springs is not None
     moves = np.atleast_2d(np.asarray(moves_mm, dtype=float))
-    spec = SweepSpec("moved", TravelDrive(moves), {"travel_mm": moves[:, 0]})
+    assert np.array_equal(moves[:, 0], moves[:, 1]), "rods a and b share an upright"
+    travel = moves[:, [0, 2]]  # corners front (a, b) and rear (c)
+    spec = SweepSpec("moved", TravelDrive(travel), {"travel_mm": travel[:, 0]})
     return design, link, run_sweep(link, spec, springs)
 
 
