@@ -357,6 +357,12 @@ class Linkage:
                 trans[:, bodies] = trans[:, par] + u_w * pose.joint[:, jnt, None]
                 if twists:
                     col[:, 0:3, jnt] = np.swapaxes(u_w, 1, 2)
+        if self.points.shape[0] > 1:  # a design batch: each point by its own body
+            owner = self.point_body
+            pts = trans[:, owner].copy()
+            for j in range(3):
+                pts += rot[..., j][:, owner] * self.points[:, :, j, None]
+            return Kinematics(rot, trans, pts, col)
         cols, rows, which = self._homogeneous_points()
         every = affine.reshape(n, 3 * nb, 4) @ cols  # each body's transform on each point
         pts = every[:, rows, which]

@@ -31,6 +31,7 @@ from plumbrod.kinematics.design_grid import GridSolution, solve_grid
 from plumbrod.kinematics.drives import BodyDrive, TravelDrive
 from plumbrod.kinematics.figures import ride_heights, sweep_figures
 from plumbrod.kinematics.linkage import Linkage
+from plumbrod.kinematics.reduced import reduce_linkage, solve_grid_reduced
 from plumbrod.kinematics.solver import Solved
 from plumbrod.kinematics.sweeps import SweepResult, SweepSpec
 from plumbrod.mechanics.analysis import locate
@@ -119,6 +120,9 @@ class Screening:
         self.density = np.array([m.density_kg_m3 for m in mats])
         self.fixity = np.array([r.end_fixity for r in design.rods])
         self.mass0 = float(self._mass(self.base[None])[0])
+        moved = np.flatnonzero(np.abs(self.move).sum(axis=(0, 2)) > 0)
+        self.reduction = reduce_linkage(link, moved)
+        """The suspension solved once per pose when the variables leave it alone."""
         self.evaluations = 0
 
     # -- geometry ------------------------------------------------------------------
@@ -146,9 +150,9 @@ class Screening:
         ratio_out = np.full((s, nr, self.travel.size), np.nan)
         if s == 0:
             return Screen(objective, cons, np.zeros(0, bool), ratio_out, np.zeros(0), leak)
-        travel = solve_grid(self.link, pts, self.travel.drive)
+        travel = self._grid(pts, self.travel)
         ok = travel.assembled.copy()
-        heave = solve_grid(self.link, pts, self.heave.drive) if self.heave else None
+        heave = self._grid(pts, self.heave) if self.heave else None
         if heave is not None:
             ok &= heave.assembled
         mass = self._mass(pts)
@@ -210,6 +214,11 @@ class Screening:
         ok[idx[bad]] = False
         return Screen(objective, cons, ok, ratio_out, mass, leak)
 
+    def _grid(self, pts: Array, spec: SweepSpec) -> GridSolution:
+        if self.reduction is not None:
+            return solve_grid_reduced(self.reduction, pts, spec.drive)
+        return solve_grid(self.link, pts, spec.drive)
+
     def _statics(
         self, parts: list[_Part], pts: Array, k: int, c_loa: Array
     ) -> tuple[Array, Array, Array, Array]:
@@ -225,7 +234,7 @@ class Screening:
             p = part.spec.size
             pick = np.unique([0, p // 2, p - 1])
             rows = (np.arange(k)[:, None] * p + pick[None, :]).ravel()
-            sub = _subset_rows(part, rows, part.spec, pick, k)
+            sub = _subset_rows(part, rows, part.spec)
             st = solve_statics(sub.link, self.routes, self.members, self.loads, sub.result)
             f = st.rod_force_N[..., self.rods].reshape(k, -1, len(self.rods))
             worst_c = np.minimum(worst_c, f.min(axis=1))
@@ -292,9 +301,7 @@ def _result(spec: SweepSpec, grid: GridSolution) -> _Part:
     return _Part(spec, grid.link, SweepResult(big, solved, grid.tangent))
 
 
-def _subset_rows(
-    part: _Part, rows: NDArray[np.intp], spec: SweepSpec, pick: NDArray[np.intp], k: int
-) -> _Part:
+def _subset_rows(part: _Part, rows: NDArray[np.intp], spec: SweepSpec) -> _Part:
     res = part.result
     drive = spec.drive.with_parameters(res.spec.drive.parameters[rows])
     values = {key: v[rows] for key, v in res.spec.values.items()}
@@ -306,7 +313,6 @@ def _subset_rows(
         kin.rotation[rows], kin.translation[rows], kin.points[rows], kin.columns[rows]
     )
     sub = Solved(solved.pose.take(rows), sub_kin, solved.residual[rows], solved.jacobian[rows], 0)
-    del pick, k
     return _Part(
         spec,
         part.link.with_points(part.link.points[rows]),
