@@ -37,6 +37,13 @@ def test_the_equaliser_example_is_exactly_located_and_passes() -> None:
     assert {c.status for c in findings.checks} == {"pass"}
     # the equaliser's mass is part of the route and of the floor's load
     assert findings.mass.bodies_kg["equaliser_rear"] == pytest.approx(1.4)
+    assert findings.analysis.loads is not None
+    label = findings.analysis.loads.labels.index("equaliser_rear mass")
+    assert findings.analysis.loads.owner[label] == 0  # counted with the floor
+    # its plate is a moving solid: measured against the tyres it passes
+    plate = [p for p in findings.clearance.pairs if p.a == "plate of rocker 'equaliser_rear'"]
+    assert {p.b for p in plate} >= {"tyre 'rear_left'", "tyre 'rear_right'"}
+    assert min(p.distance_mm for p in plate) > 5.0
 
 
 def _unequal_arms() -> str:

@@ -43,11 +43,11 @@ from numpy.typing import NDArray
 from plumbrod.design.car import CarLayout, SpringPoint, car_layout
 from plumbrod.design.model import Design
 from plumbrod.kinematics.drives import BodyDrive
+from plumbrod.kinematics.elastic import ElasticSetup
 from plumbrod.kinematics.figures import ground_frame
 from plumbrod.kinematics.frames import cross
 from plumbrod.kinematics.linkage import Linkage
 from plumbrod.kinematics.routes import RouteMap
-from plumbrod.kinematics.elastic import ElasticSetup
 from plumbrod.kinematics.sweeps import SweepResult, SweepSpec, run_sweep
 from plumbrod.mechanics.loads import AppliedLoads
 from plumbrod.mechanics.members import Member
