@@ -21,9 +21,10 @@ def register(subparsers: Any) -> None:
         description=(
             "Move the points the design file's [tune] table frees, within their bounds, "
             "to meet every target (route ratio, line of action, transmission angles, "
-            "ride-height sensitivity, buckling and tension reserves; each defaults to its "
-            "check's limit) while holding the route ratio flat and keeping the weighted "
-            "objectives (rod mass, sprung leakage) low: a global search (differential "
+            "ride-height sensitivity, buckling and tension reserves, the avoidable "
+            "spring-load share; each defaults to its check's limit) while holding the route "
+            "ratio flat and keeping the weighted objectives (rod mass, avoidable spring-load "
+            "share) low: a global search (differential "
             "evolution) then a local polish (SLSQP). The best candidates are checked in "
             "full (clearance included); the best that passes is written to a new design "
             "file (the input is never overwritten; comments kept) with a before/after "
@@ -151,7 +152,7 @@ def _table(spec: Any, x: Any, before: Any, after: Any) -> None:
         rows.append((f"route ratio {name}", "", span_b, "", span_a, "min to max"))
     rows.append(
         (
-            "route mass",
+            "mass (rods, rockers, elements)",
             "",
             f"{before.mass.total_kg:.3f} kg",
             "",
