@@ -18,6 +18,7 @@ COMMAND_MODULES: tuple[str, ...] = (
     "export",
     "tradeoff",
     "new",
+    "schema",
     "demo",
 )
 """Verbs in the order ``--help`` lists them; a module missing here is not offered."""
