@@ -329,7 +329,12 @@ def _refine(
     meta: list[tuple[str, str, float, str | None, str | None]],
     found: dict[int, tuple[int, int, float, Array, Array]],
 ) -> dict:
-    """Refine between the poses every measured pair near its limit; by pair index."""
+    """Refine between the poses every measured pair near its limit; by pair index.
+
+    A redundantly located design is left at its poses: they come from the elastic
+    solution, which the rigid re-solve between poses does not reproduce."""
+    if analysis.mobility.redundant:
+        return {}
     fixed = {name: solid for name, (solid, _) in zones.items()}
 
     def solids_at(kin: Kinematics, only: set[str] | None = None) -> dict[str, Solid]:
