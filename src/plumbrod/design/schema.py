@@ -204,7 +204,8 @@ KEYS: tuple[Key, ...] = (
     # -- [rockers.<name>] -------------------------------------------------------------
     _k("rockers.*", "table", "a rigid body turning about an axis fixed in its parent"),
     _k("rockers.*.parent", "string",
-       '"chassis" or a corner body such as "front_left.lower"', required=True,
+       '"chassis", a corner body such as "front_left.lower", or an element (an equaliser)',
+       required=True,
        missing='add parent = "chassis" (or a corner body such as "front_left.lower")'),
     _k("rockers.*.axis_mm", "axis", "two points on the pivot axis", when=("3d",),
        required=True, **_POINT),

@@ -141,7 +141,7 @@ def plot_forces(findings: Findings, ax: Axes, case: int) -> list[Any]:
     travel = analysis.sweeps["travel"].spec.values["travel_mm"]
     required = analysis.design.limits.buckling_reserve
     index = [analysis.link.rod_names.index(rod.name) for rod in analysis.design.rods]
-    forces = st.rod_force_N[:, case][:, index]
+    forces = analysis.rod_force_N("travel")[:, case][:, index]  # fight forces included
     low, high = min(float(forces.min()), 0.0), max(float(forces.max()), 0.0)
     span = max(high - low, 1.0)
     bottom = low - 0.6 * span  # room for a capacity line that comes close
