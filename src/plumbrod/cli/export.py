@@ -25,7 +25,8 @@ def register(subparsers: Any) -> None:
             "hardpoints) and one <name>-plate-<rocker>.dxf per rocker with plate data "
             "(the flat cut profile 1:1 in mm: one closed outer polyline with true arcs "
             "and the holes as circles on cut layers; notes on other layers). Files are "
-            "written whole or not at all."
+            "written whole or not at all. Prints the verdict line and exits 1 when a "
+            "check fails, like `plumbrod check`."
         ),
         epilog=CAUTION,
     )
@@ -43,6 +44,12 @@ def register(subparsers: Any) -> None:
         help="DXF version (default R2010; R2000 for older cutting software)",
     )
     parser.add_argument(
+        "--cut-only",
+        action="store_true",
+        help="plate files hold the cut layers only (outer profile and holes), for "
+        "cutting software that cuts every line it reads",
+    )
+    parser.add_argument(
         "--png",
         action="store_true",
         help="also write a PNG preview of each DXF file (3D designs seen "
@@ -58,14 +65,20 @@ def export_files(
     dxf_version: str = "R2010",
     png: bool = False,
     stem: str | None = None,
+    cut_only: bool = False,
+    notes: list[str] | None = None,
 ) -> list[Path]:
     """Write the DXF files of a solved design (and PNG previews when ``png``) into
     ``folder``; every file is prepared before any is renamed into place.  Returns the
-    paths written.  ``plumbrod demo`` can call this with the bundled example."""
+    paths written; ``notes`` (when given) receives one line per plate not written and
+    why.  ``plumbrod demo`` can call this with the bundled example."""
     from plumbrod.outputs.atomic import write_many
-    from plumbrod.outputs.dxf_export import design_drawings, dxf_bytes
+    from plumbrod.outputs.dxf_export import drawing_set, dxf_bytes
 
-    drawings = design_drawings(analysis, dxf_version=dxf_version, stem=stem)
+    found = drawing_set(analysis, dxf_version=dxf_version, stem=stem, cut_only=cut_only)
+    drawings = found.drawings
+    if notes is not None:
+        notes.extend(found.notes)
     out = Path(folder)
     files: dict[Path, bytes] = {out / name: dxf_bytes(doc) for name, doc in drawings.items()}
     if png:
@@ -79,22 +92,29 @@ def export_files(
 
 def run(args: argparse.Namespace) -> int:
     from plumbrod.design.loading import load_design
-    from plumbrod.mechanics.analysis import analyse
+    from plumbrod.outputs.report import verdict, verdict_line
+    from plumbrod.verdict.findings import review
 
-    analysis = analyse(load_design(args.design))
+    findings = review(load_design(args.design))
+    notes: list[str] = []
     written = export_files(
-        analysis,
+        findings.analysis,
         args.output_dir,
         dxf_version=args.dxf_version,
         png=args.png,
         stem=Path(args.design).stem,
+        cut_only=args.cut_only,
+        notes=notes,
     )
     for path in written:
         sys.stdout.write(f"wrote {path}\n")
+    for note in notes:
+        sys.stdout.write(f"{note}\n")
     plates = sum(1 for p in written if "-plate-" in p.name and p.suffix == ".dxf")
     sys.stdout.write(
         f"units: mm; {plates} plate profile{'s' if plates != 1 else ''} (cut layers: "
         "CUT_PROFILE, CUT_HOLES). Check fits, webs and strength with a qualified engineer "
         "before cutting.\n"
     )
-    return 0
+    sys.stdout.write(verdict_line(findings.checks) + "\n")
+    return 1 if verdict(findings.checks) == "fail" else 0

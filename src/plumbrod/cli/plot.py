@@ -20,7 +20,8 @@ def register(subparsers: Any) -> None:
             "ratio, ride height against the bolted element, line of action, transmission "
             "angles) and <design>-forces.png (rod forces per load case through the "
             "travel, with each compression rod's critical load over the required "
-            "reserve)."
+            "reserve). Prints the verdict line and exits 1 when a check fails, like "
+            "`plumbrod check`."
         ),
         epilog=CAUTION,
     )
@@ -37,9 +38,11 @@ def register(subparsers: Any) -> None:
 def run(args: argparse.Namespace) -> int:
     from plumbrod.design.loading import load_design
     from plumbrod.outputs.plots import plot_findings
+    from plumbrod.outputs.report import verdict, verdict_line
     from plumbrod.verdict.findings import review
 
     findings = review(load_design(args.design))
     for path in plot_findings(findings, args.output_dir, Path(args.design).stem):
         print(f"wrote {path}")
-    return 0
+    print(verdict_line(findings.checks))
+    return 1 if verdict(findings.checks) == "fail" else 0

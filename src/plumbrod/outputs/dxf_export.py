@@ -63,11 +63,16 @@ __all__ = [
     "DXF_VERSIONS",
     "PLATE_LAYERS",
     "ROUTE_LAYERS",
+    "DrawingSet",
     "LayerSpec",
+    "PlatePart",
     "design_drawings",
+    "drawing_set",
     "dxf_bytes",
     "export_design",
+    "is_torsion_rocker",
     "plate_drawing",
+    "plate_parts",
     "route_drawing",
 ]
 
@@ -98,7 +103,7 @@ SUSPENSION = LayerSpec("SUSPENSION", 8)
 TYRES = LayerSpec("TYRES", 8, "DASHED")
 ZONES = LayerSpec("ZONES", 3, "DASHED")
 HARDPOINTS = LayerSpec("HARDPOINTS", 7)
-LABELS = LayerSpec("LABELS", 250)
+LABELS = LayerSpec("LABELS", 7)
 TITLE = LayerSpec("TITLE", 7)
 ROUTE_LAYERS: tuple[LayerSpec, ...] = (
     ROUTE_RODS,
@@ -117,11 +122,27 @@ ROUTE_LAYERS: tuple[LayerSpec, ...] = (
 # -- plate drawing layers ---------------------------------------------------------------
 CUT_PROFILE = LayerSpec("CUT_PROFILE", 7, cut=True)
 CUT_HOLES = LayerSpec("CUT_HOLES", 1, cut=True)
-CENTRE_MARKS = LayerSpec("CENTRE_MARKS", 4)
-NOTES = LayerSpec("NOTES", 250)
-PLATE_LAYERS: tuple[LayerSpec, ...] = (CUT_PROFILE, CUT_HOLES, CENTRE_MARKS, NOTES, TITLE)
+CENTRE_MARKS = LayerSpec("NOCUT_CENTRE_MARKS", 4)
+NOTES = LayerSpec("NOCUT_NOTES", 7)
+PLATE_TITLE = LayerSpec("NOCUT_TITLE", 7)
+PLATE_LAYERS: tuple[LayerSpec, ...] = (CUT_PROFILE, CUT_HOLES, CENTRE_MARKS, NOTES, PLATE_TITLE)
 CUT_LAYERS: frozenset[str] = frozenset(spec.name for spec in PLATE_LAYERS if spec.cut)
-"""Layers a cutting program should cut: the outer profile and the holes."""
+"""Layers a cutting program should cut: the outer profile and the holes.  Every other
+layer of a plate file starts with ``NOCUT_`` (marks and notes, never to be cut)."""
+
+TEXT_COLOUR = 7
+"""ACI 7: drawn black on a light background and white on a dark one (every CAD program
+inverts it), so text stays readable whatever background the CAD user picked."""
+
+TORSION_SPREAD_MM = 25.0
+TORSION_SPREAD_THICKNESS = 5.0
+"""A rocker whose pickups spread along its pivot axis by more than the larger of these
+(mm, and times the plate thickness) is not a plate but a torsion tube with arms: no cut
+file is written for it (common practice, no source)."""
+
+HELPER_POINTS = (".slide_top", ".slide_base", ".axis_a", ".axis_b")
+"""Points the solver adds for itself (slider guides, rocker axis ends): drawn, never
+labelled as hardpoints."""
 
 PLATE_TEXT_MM = 3.5
 """Text height on plate drawings (ISO 3098 series: 2.5, 3.5, 5, 7 mm; common practice,
@@ -155,10 +176,18 @@ def _check_version(dxf_version: str) -> str:
 
 
 def _new_document(dxf_version: str, layers: Iterable[LayerSpec]) -> Drawing:
-    """A new mm document with the standard linetypes and styles and our layers."""
+    """A new mm document with our layers and only the linetypes they use (the
+    "Standard" text style is always there)."""
+    from ezdxf.tools.standards import linetypes
+
     ezdxf = _ezdxf()
+    layers = tuple(layers)
     with _fixed_metadata():  # ezdxf stamps its creation marker here
-        doc = ezdxf.new(_check_version(dxf_version), setup=True, units=ezdxf.units.MM)
+        doc = ezdxf.new(_check_version(dxf_version), setup=False, units=ezdxf.units.MM)
+    wanted = {spec.linetype.upper() for spec in layers} - {"CONTINUOUS"}
+    for name, description, pattern in linetypes():
+        if name.upper() in wanted and name not in doc.linetypes:
+            doc.linetypes.add(name, pattern=pattern, description=description)
     doc.header["$INSUNITS"] = ezdxf.units.MM
     doc.header["$MEASUREMENT"] = 1
     doc.header["$LUNITS"] = 2
@@ -185,9 +214,20 @@ def _text(
 
 
 def _finish(doc: Drawing) -> Drawing:
+    """Zoom the active viewport to the drawing and write ``$EXTMIN``/``$EXTMAX``."""
     import ezdxf.zoom
+    from ezdxf import bbox
 
-    ezdxf.zoom.extents(doc.modelspace())
+    msp = doc.modelspace()
+    extents = bbox.extents(msp)
+    if extents.has_data:
+        # ezdxf copies the layout's extents and limits into the header when it writes
+        low = tuple(float(c) for c in extents.extmin)
+        high = tuple(float(c) for c in extents.extmax)
+        msp.dxf.extmin, msp.dxf.extmax = low, high
+        msp.dxf.limmin, msp.dxf.limmax = low[:2], high[:2]
+        doc.header["$EXTMIN"], doc.header["$EXTMAX"] = low, high
+    ezdxf.zoom.extents(msp)
     return doc
 
 
@@ -290,10 +330,13 @@ def _label_height(points: np.ndarray) -> float:
 
 
 def _hardpoints(analysis: Analysis) -> list[tuple[np.ndarray, list[str]]]:
-    """Distinct hardpoint positions (design pose) with every name found there."""
+    """Distinct hardpoint positions (design pose) with every name found there; the
+    solver's helper points (:data:`HELPER_POINTS`) are left out."""
     link = analysis.link
     groups: list[tuple[np.ndarray, list[str]]] = []
     for name, p in zip(link.point_names, link.points[0], strict=True):
+        if name.endswith(HELPER_POINTS):
+            continue
         for position, names in groups:
             if np.array_equal(position, p):
                 names.append(name)
@@ -446,7 +489,9 @@ def _draw_zones(msp: Modelspace, analysis: Analysis, height: float) -> None:
         _text(msp, f"zone {zone.name}", centre, height, LABELS.name)
 
 
-def route_drawing(analysis: Analysis, *, dxf_version: str = "R2010") -> Drawing:
+def route_drawing(
+    analysis: Analysis, *, dxf_version: str = "R2010", sheet_name: str = "<design>-sheet.dxf"
+) -> Drawing:
     """The design pose as a 3D wireframe, mm, ISO 8855 axes (see the module notes).
 
     Layers: ROUTE_RODS (rods of the load routes and any other rod that is not a guide),
@@ -454,8 +499,9 @@ def route_drawing(analysis: Analysis, *, dxf_version: str = "R2010") -> Drawing:
     axis to each pickup), ROCKER_PLATES, SUSPENSION (wishbone arms, upright, tie rod),
     TYRES (envelope cylinders: two circles and five lines each), ZONES (keep-out solids),
     HARDPOINTS (one POINT per distinct position), LABELS (TEXT), TITLE (one MTEXT with
-    the design name, "units: mm", the axes and the generator).  Rod LINE ends are the
-    design hardpoints exactly.
+    the design name, "units: mm", the axes, the generator and a pointer to the 2D sheet
+    ``sheet_name``).  Rod LINE ends are the design hardpoints exactly.  Text layers are
+    ACI 7 (:data:`TEXT_COLOUR`).
     """
     from plumbrod.mechanics.plates import rocker_outlines
 
@@ -490,6 +536,8 @@ def route_drawing(analysis: Analysis, *, dxf_version: str = "R2010") -> Drawing:
         design.name,
         "hardpoints at the design pose (static ride height, wheels on the ground); units: mm",
         "axes ISO 8855: x forward, y left, z up; origin as in the design file",
+        f"3D wireframe for 3D CAD; for 2D CAD open {sheet_name} (front, side, top and "
+        "isometric views, swept envelopes, hardpoint table)",
         f"generated by plumbrod {__version__} from {source}; layout geometry only: "
         "fits, clearances and strength need a qualified engineer's check",
     ]
@@ -509,23 +557,104 @@ def route_drawing(analysis: Analysis, *, dxf_version: str = "R2010") -> Drawing:
 
 
 # -- plate drawing ---------------------------------------------------------------------
+@dataclass(frozen=True)
+class PlatePart:
+    """One rocker plate to cut: the rocker's ``name``, its ``outline``, ``material``,
+    ``quantity`` (1 per rocker) and ``twin``: the other rocker whose plate has the same
+    profile (``"same"``) or its mirror image (``"mirrored"``), with that rocker's name."""
+
+    name: str
+    outline: PlateOutline
+    material: str
+    quantity: int = 1
+    twin: tuple[str, str] | None = None
+
+
+def _hole_key(outline: PlateOutline, mirror: bool) -> list[tuple[float, float, float]]:
+    sign = -1.0 if mirror else 1.0
+    return sorted(
+        (round(h.diameter_mm, 3), round(h.centre_uv[0], 3), round(sign * h.centre_uv[1], 3))
+        for h in outline.holes
+    )
+
+
+def torsion_spread_mm(outline: PlateOutline) -> float:
+    """How far the pickups spread along the pivot axis (mm): 0 for a flat plate."""
+    offsets = [h.axial_offset_mm for h in outline.holes]
+    return max(offsets) - min(offsets)
+
+
+def is_torsion_rocker(outline: PlateOutline) -> bool:
+    """True when the pickups do not lie near one plane (see :data:`TORSION_SPREAD_MM`)."""
+    limit = max(TORSION_SPREAD_MM, TORSION_SPREAD_THICKNESS * outline.thickness_mm)
+    return torsion_spread_mm(outline) > limit
+
+
+def plate_parts(design: Design) -> tuple[list[PlatePart], list[str]]:
+    """The plates to cut and one note per rocker that gets no plate file (why).
+
+    Two rockers with the same profile (holes, diameters, thickness, material), or with
+    mirror-image profiles, name each other as twins; each keeps its own file, 1 off.
+    """
+    from plumbrod.mechanics.plates import rocker_outlines
+
+    materials = {r.name: r.plate.material for r in design.rockers if r.plate is not None}
+    parts: list[PlatePart] = []
+    notes: list[str] = []
+    for rocker, outline in rocker_outlines(design).items():
+        if is_torsion_rocker(outline):
+            notes.append(
+                f"rocker {rocker}: no plate file; its pickups lie "
+                f"{torsion_spread_mm(outline):.0f} mm apart along the pivot axis, so it is "
+                "a torsion tube with arms, not a flat plate"
+            )
+            continue
+        parts.append(PlatePart(rocker, outline, materials[rocker]))
+    out: list[PlatePart] = []
+    for part in parts:
+        twin = None
+        for other in parts:
+            if other is part or (other.material, other.outline.thickness_mm) != (
+                part.material,
+                part.outline.thickness_mm,
+            ):
+                continue
+            if _hole_key(other.outline, False) == _hole_key(part.outline, False):
+                twin = (other.name, "same")
+            elif _hole_key(other.outline, True) == _hole_key(part.outline, False):
+                twin = (other.name, "mirrored")
+            if twin:
+                break
+        out.append(PlatePart(part.name, part.outline, part.material, 1, twin))
+    return out, notes
+
+
 def plate_drawing(
-    outline: PlateOutline,
-    name: str,
+    outline: PlateOutline | PlatePart,
+    name: str = "",
     *,
     material: str = "not given",
     design_name: str = "",
     dxf_version: str = "R2010",
+    cut_only: bool = False,
 ) -> Drawing:
     """One rocker plate, flat and 1:1, in its (u, v) frame (mm), for cutting.
 
     CUT_PROFILE: one closed LWPOLYLINE, the exact hull of the boss circles (tangent
     lines and true arcs as bulges).  CUT_HOLES: one CIRCLE per hole (diameter as
-    designed).  CENTRE_MARKS: a cross in every hole.
-    NOTES: hole names and diameters ("pivot d12").  TITLE: rocker, material, thickness,
-    "units: mm", cut length, area, frame, caution.
+    designed).  Nothing else is on a cut layer.  NOCUT_CENTRE_MARKS: a cross in every
+    hole.  NOCUT_NOTES: hole names and diameters ("pivot d12").  NOCUT_TITLE: part,
+    material, thickness, quantity, "units: mm", cut length, area, frame, caution.
+    ``cut_only`` leaves out every non-cut layer (for a CAM import that cuts all it
+    reads).
     """
-    doc = _new_document(dxf_version, PLATE_LAYERS)
+    if isinstance(outline, PlatePart):
+        part = outline
+    else:
+        part = PlatePart(name, outline, material)
+    outline = part.outline
+    layers = (CUT_PROFILE, CUT_HOLES) if cut_only else PLATE_LAYERS
+    doc = _new_document(dxf_version, layers)
     msp = doc.modelspace()
     profile = plate_profile(outline)
     vertices = _profile_vertices(profile)
@@ -535,6 +664,8 @@ def plate_drawing(
         r = hole.diameter_mm / 2.0
         cu, cv = hole.centre_uv
         msp.add_circle((cu, cv), r, dxfattribs={"layer": CUT_HOLES.name})
+        if cut_only:
+            continue
         arm = 0.6 * r
         _line(msp, (cu - arm, cv), (cu + arm, cv), CENTRE_MARKS.name)
         _line(msp, (cu, cv - arm), (cu, cv + arm), CENTRE_MARKS.name)
@@ -555,17 +686,29 @@ def plate_drawing(
             NOTES.name,
             align=align,
         )
+    if cut_only:
+        return _finish(doc)
 
     pts = profile.sample_uv(0.1)
     lo = pts.min(axis=0)
     holes_area = sum(math.pi * h.diameter_mm**2 / 4.0 for h in outline.holes)
     first = next((h.name for h in outline.holes if h.name != "pivot"), "pivot")
+    quantity = f"quantity: {part.quantity} off"
+    if part.twin is not None:
+        other, how = part.twin
+        quantity += (
+            f" (rocker {other} has the same profile: its own file)"
+            if how == "same"
+            else f" (rocker {other} is its mirror image: its own file; a flat plate turned "
+            "over is its mirror)"
+        )
     lines = [
-        f"rocker {name} plate" + (f" - {design_name}" if design_name else ""),
-        f"material {material}, thickness {outline.thickness_mm:g} mm; units: mm, scale 1:1",
+        f"part: rocker {part.name} plate" + (f" - {design_name}" if design_name else ""),
+        f"material {part.material}, thickness {outline.thickness_mm:g} mm; {quantity}",
+        "units: mm, scale 1:1",
         f"cut: outer profile (layer {CUT_PROFILE.name}, length {profile.length_mm:.1f} mm), "
         f"{len(outline.holes)} holes (layer {CUT_HOLES.name}); net area "
-        f"{profile.area_mm2 - holes_area:.0f} mm2",
+        f"{profile.area_mm2 - holes_area:.0f} mm2; layers NOCUT_* are not to be cut",
         f"frame: origin on the pivot axis, u towards '{first}', v = axis x u "
         "(seen from the axis end)",
     ]
@@ -586,7 +729,7 @@ def plate_drawing(
             line,
             (lo[0], lo[1] - 3.0 * h - 1.7 * h * k),
             h * (1.4 if k == 0 else 1.0),
-            TITLE.name,
+            PLATE_TITLE.name,
         )
     return _finish(doc)
 
@@ -600,28 +743,50 @@ def _stem(design: Design) -> str:
     return stem
 
 
-def design_drawings(
-    analysis: Analysis, *, dxf_version: str = "R2010", stem: str | None = None
-) -> dict[str, Drawing]:
-    """Every drawing of a design by file name: ``<stem>-route.dxf`` and one
-    ``<stem>-plate-<rocker>.dxf`` per rocker with plate data.  ``stem`` defaults to the
-    design file's name without its suffix."""
-    from plumbrod.mechanics.plates import rocker_outlines
+@dataclass(frozen=True)
+class DrawingSet:
+    """Every drawing of a design by file name, and notes about what was not drawn."""
 
+    drawings: dict[str, Drawing]
+    notes: tuple[str, ...]
+
+
+def drawing_set(
+    analysis: Analysis,
+    *,
+    dxf_version: str = "R2010",
+    stem: str | None = None,
+    cut_only: bool = False,
+    sheet: bool = False,
+) -> DrawingSet:
+    """``<stem>-route.dxf``, ``<stem>-sheet.dxf`` (when ``sheet``) and one
+    ``<stem>-plate-<rocker>.dxf`` per flat rocker plate; a torsion rocker gets a note
+    instead of a plate file.  ``stem`` defaults to the design file's name."""
     _check_version(dxf_version)
     design = analysis.design
     base = stem or _stem(design)
-    out = {f"{base}-route.dxf": route_drawing(analysis, dxf_version=dxf_version)}
-    materials = {r.name: r.plate.material for r in design.rockers if r.plate is not None}
-    for rocker, outline in rocker_outlines(design).items():
-        out[f"{base}-plate-{rocker}.dxf"] = plate_drawing(
-            outline,
-            rocker,
-            material=materials[rocker],
-            design_name=design.name,
-            dxf_version=dxf_version,
+    out = {
+        f"{base}-route.dxf": route_drawing(
+            analysis, dxf_version=dxf_version, sheet_name=f"{base}-sheet.dxf"
         )
-    return out
+    }
+    if sheet:
+        from plumbrod.outputs.dxf_sheet import sheet_drawing
+
+        out[f"{base}-sheet.dxf"] = sheet_drawing(analysis, dxf_version=dxf_version)
+    parts, notes = plate_parts(design)
+    for part in parts:
+        out[f"{base}-plate-{part.name}.dxf"] = plate_drawing(
+            part, design_name=design.name, dxf_version=dxf_version, cut_only=cut_only
+        )
+    return DrawingSet(out, tuple(notes))
+
+
+def design_drawings(
+    analysis: Analysis, *, dxf_version: str = "R2010", stem: str | None = None
+) -> dict[str, Drawing]:
+    """Every drawing of a design by file name (see :func:`drawing_set`)."""
+    return drawing_set(analysis, dxf_version=dxf_version, stem=stem).drawings
 
 
 def export_design(
