@@ -757,7 +757,7 @@ def drawing_set(
     dxf_version: str = "R2010",
     stem: str | None = None,
     cut_only: bool = False,
-    sheet: bool = False,
+    sheet: bool = True,
 ) -> DrawingSet:
     """``<stem>-route.dxf``, ``<stem>-sheet.dxf`` (when ``sheet``) and one
     ``<stem>-plate-<rocker>.dxf`` per flat rocker plate; a torsion rocker gets a note
