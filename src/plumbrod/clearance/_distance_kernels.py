@@ -548,7 +548,8 @@ def prism_cyl(
     side_n = side_n / nlen[..., None]
     w = axes[:, 2]
     normals = np.concatenate([side_n, w[:, None], -w[:, None]], axis=1)
-    _, yf = support_cyl(*(arr[:, None] for arr in c), -normals)
+    c0, c_axis, c_len, c_rad = c
+    _, yf = support_cyl(c0[:, None], c_axis[:, None], c_len[:, None], c_rad[:, None], -normals)
     local = np.einsum("nij,nfj->nfi", axes, yf - origin[:, None])
     q, z = local[..., :2], local[..., 2]
     qs = q[:, :m]
@@ -583,7 +584,7 @@ def prism_cyl(
     # edges that may come closer than the best so far
     ei = prism_edge_index(m)
     e, e_ok = _unit(y - x)
-    low_c = -support_cyl(*c, -e)[0]
+    low_c = -support_cyl(c0, c_axis, c_len, c_rad, -e)[0]
     pa = np.einsum("nvk,nk->nv", va, e)
     top = np.maximum(pa[:, ei[:, 0]], pa[:, ei[:, 1]])
     keep = (low_c[:, None] - top < best[:, None]) | ~e_ok[:, None]

@@ -33,7 +33,7 @@ Part = tuple[str, tuple[np.ndarray, ...]]
 def part_of(solid: Solid) -> tuple[Part, bool]:
     """The convex part of a solid, and whether it has a leading piece axis (prisms)."""
     if isinstance(solid, Capsule):
-        return ("seg", (solid.p0, solid.p1, solid.radius)), False
+        return ("seg", (solid.p0, solid.p1, np.asarray(solid.radius))), False
     if isinstance(solid, Box):
         assert solid.rotation is not None
         h = solid.half_size
@@ -50,7 +50,7 @@ def part_of(solid: Solid) -> tuple[Part, bool]:
         axes = np.swapaxes(solid.rotation, -1, -2)
         return ("prism", (solid.centre, axes, poly, np.ones(poly.shape[:-1], bool), -hz, hz)), False
     if isinstance(solid, Plate):
-        half = 0.5 * solid.thickness
+        half = 0.5 * np.asarray(solid.thickness)
         poly = solid.polygon_uv
         return (
             "prism",
@@ -59,7 +59,7 @@ def part_of(solid: Solid) -> tuple[Part, bool]:
     if isinstance(solid, Cylinder):
         d = solid.p1 - solid.p0
         length = np.linalg.norm(d, axis=-1)
-        return ("cyl", (solid.p0, d / length[..., None], length, solid.radius)), False
+        return ("cyl", (solid.p0, d / length[..., None], length, np.asarray(solid.radius))), False
     if isinstance(solid, Prism):
         m = max(len(p) for p in solid.pieces)
         count = len(solid.pieces)

@@ -547,12 +547,12 @@ def least_separations(
         for solid, role in ((first, False), (second, True)):
             if (id(solid), role) not in cache:
                 cache[id(solid), role] = _own_part(solid, role)
-        pa, _ = cache[id(first), False]
-        pb, count = cache[id(second), True]
-        m_a = pa[1][2].shape[-2] if pa[0] == "prism" else 0
-        m_b = pb[1][2].shape[-2] if pb[0] == "prism" else 0
-        key = (pa[0], pb[0], m_a, m_b, count, bool(second.batch_shape))
-        groups.setdefault(key, _Group(key, n)).add(i, first, second, pa, pb)
+        part_a, _ = cache[id(first), False]
+        part_b, count = cache[id(second), True]
+        m_a = part_a[1][2].shape[-2] if part_a[0] == "prism" else 0
+        m_b = part_b[1][2].shape[-2] if part_b[0] == "prism" else 0
+        key = (part_a[0], part_b[0], m_a, m_b, count, bool(second.batch_shape))
+        groups.setdefault(key, _Group(key, n)).add(i, first, second, part_a, part_b)
         solid_ids.append((first, second))
     for group in groups.values():
         group.freeze()

@@ -17,11 +17,13 @@ lie in one plane and the tyres stand beside it. Distances are exact for separate
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import Literal, cast
 
 import numpy as np
 from numpy.typing import NDArray
 
 from plumbrod.clearance.distance import least_separations, separation
+from plumbrod.design.model import Vec3
 from plumbrod.geometry.shapes import Box, Capsule, Cylinder, Plate, Prism, Solid
 from plumbrod.kinematics.linkage import Kinematics
 from plumbrod.mechanics.analysis import Analysis
@@ -86,18 +88,20 @@ def zone_solids(analysis: Analysis) -> dict[str, tuple[Solid, float]]:
         p = zone.params
         limit = default if zone.clearance_mm is None else zone.clearance_mm
         solid: Solid
+        # the design reader stored each zone's parameters with these types
         if zone.kind == "box":
             solid = Box(
                 np.array(p["centre_mm"]),
                 np.array(p["size_mm"]) / 2.0,
-                _rotation_xyz(p["rotation_deg"]),
-            )  # type: ignore[arg-type]
+                _rotation_xyz(cast(Vec3, p["rotation_deg"])),
+            )
         elif zone.kind == "cylinder":
-            a, b = p["axis_mm"]  # type: ignore[misc]
-            solid = Cylinder(np.array(a), np.array(b), float(p["radius_mm"]))  # type: ignore[arg-type]
+            a, b = cast(tuple[Vec3, Vec3], p["axis_mm"])
+            solid = Cylinder(np.array(a), np.array(b), float(cast(float, p["radius_mm"])))
         else:
-            d0, d1 = p["depth_mm"]  # type: ignore[misc]
-            solid = Prism(np.array(p["outline_mm"]), p["plane"], d0, d1)  # type: ignore[arg-type]
+            d0, d1 = cast(tuple[float, float], p["depth_mm"])
+            plane = cast(Literal["front", "side", "top"], p["plane"])
+            solid = Prism(np.array(p["outline_mm"]), plane, d0, d1)
         out[f"zone '{zone.name}'"] = (solid, limit)
     return out
 
@@ -136,24 +140,24 @@ def _moving_solids(analysis: Analysis, kins: list[Kinematics]) -> list[_Moving]:
         env = element.envelope
         if env is None:
             continue
-        b = link.body(element.name)
+        body_ix = link.body(element.name)
         r0 = _rotation_xyz(env.rotation_deg)
-        centre = (rot[:, b] @ np.array(env.centre_mm)) + trans[:, b]
+        centre = (rot[:, body_ix] @ np.array(env.centre_mm)) + trans[:, body_ix]
         anchors = np.array(
             [p.position_mm for p in design.pickups.values() if p.body == element.name]
         )
         out.append(
             _Moving(
                 f"envelope of element '{element.name}'",
-                Box(centre, np.array(env.size_mm) / 2.0, rot[:, b] @ r0),
+                Box(centre, np.array(env.size_mm) / 2.0, rot[:, body_ix] @ r0),
                 frozenset({element.name}),
                 anchors.reshape(-1, 3),
                 None,
             )
         )
     for name, outline in rocker_outlines(design).items():
-        b = link.body(name)
-        verts = outline.vertices_3d(rot[:, b], trans[:, b], chord_tol_mm=0.5)
+        body_ix = link.body(name)
+        verts = outline.vertices_3d(rot[:, body_ix], trans[:, body_ix], chord_tol_mm=0.5)
         rocker = next(r for r in design.rockers if r.name == name)
         anchors = np.array(
             [p.position_mm for p in design.pickups.values() if p.body == name] + [rocker.axis_a_mm]
@@ -212,12 +216,12 @@ def clearance_report(analysis: Analysis) -> ClearanceReport:
                 continue
             pairs.append((m.solid, zone))
             meta.append((m.name, zname, limit, m.rod, None))
-    for i, a in enumerate(moving):
-        for b in moving[i + 1 :]:
-            if a.bodies & b.bodies:
+    for i, first in enumerate(moving):
+        for second in moving[i + 1 :]:
+            if first.bodies & second.bodies:
                 continue
-            pairs.append((a.solid, b.solid))
-            meta.append((a.name, b.name, default, a.rod, b.rod))
+            pairs.append((first.solid, second.solid))
+            meta.append((first.name, second.name, default, first.rod, second.rod))
     bounds = [_box_gap(_bounds(a), _bounds(b)) for a, b in pairs]
     near = [i for i, (gap, m) in enumerate(zip(bounds, meta, strict=True)) if gap <= m[2] + FAR_MM]
     results = (
@@ -230,7 +234,7 @@ def clearance_report(analysis: Analysis) -> ClearanceReport:
         if res is None:
             pair = ClearancePair(
                 a, b, bounds[i], limit, "", -1, (np.nan,) * 3, (np.nan,) * 3, exact=False
-            )  # type: ignore[arg-type]
+            )
         else:
             sweep_index = int(np.searchsorted(starts, res.pose_index, side="right") - 1)
             pair = ClearancePair(
@@ -240,15 +244,21 @@ def clearance_report(analysis: Analysis) -> ClearanceReport:
                 limit,
                 names[sweep_index],
                 int(res.pose_index - starts[sweep_index]),
-                tuple(float(v) for v in res.point_a),  # type: ignore[arg-type]
-                tuple(float(v) for v in res.point_b),
-            )  # type: ignore[arg-type]
+                _vec3(res.point_a),
+                _vec3(res.point_b),
+            )
         out.append(pair)
         for rod in (rod_a, rod_b):
             if rod is not None:
                 margins[rod] = min(margins[rod], pair.margin_mm)
     out.sort(key=lambda p: p.margin_mm)
     return ClearanceReport(tuple(out), tuple(skipped), margins, int(starts[-1]))
+
+
+def _vec3(point: Array) -> Vec3:
+    """A point (3,) as a tuple of floats."""
+    x, y, z = (float(v) for v in point)
+    return (x, y, z)
 
 
 def _bounds(solid: Solid) -> tuple[Array, Array]:

@@ -14,6 +14,7 @@ COMMAND_MODULES: tuple[str, ...] = (
     "plot",
     "column",
     "size",
+    "tune",
     "export",
     "new",
     "demo",

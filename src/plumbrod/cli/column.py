@@ -37,7 +37,7 @@ COLUMN_CAUTION = (
 )
 
 
-def register(subparsers: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
+def register(subparsers: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
     """Add the ``column`` parser and set ``handler=run``."""
     parser = subparsers.add_parser(
         "column",

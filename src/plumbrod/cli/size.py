@@ -148,19 +148,11 @@ def run(args: argparse.Namespace) -> int:
         b = choice.before
         old = findings.reserves[choice.rods[0]]
         worst_c = min(
-            (
-                findings.reserves[r].compression.force_N
-                for r in choice.rods
-                if findings.reserves[r].compression
-            ),
+            (f.force_N for f in (findings.reserves[r].compression for r in choice.rods) if f),
             default=0.0,
         )
         worst_t = max(
-            (
-                findings.reserves[r].tension.force_N
-                for r in choice.rods
-                if findings.reserves[r].tension
-            ),
+            (f.force_N for f in (findings.reserves[r].tension for r in choice.rods) if f),
             default=0.0,
         )
         wall = thinnest_wall_mm(

@@ -44,7 +44,8 @@ SYSTEMS: tuple[str, ...] = ("all", "metric", "inch")
 
 
 class _HasDensity(Protocol):
-    density_kg_m3: float
+    @property
+    def density_kg_m3(self) -> float: ...
 
 
 def _tube_arrays(od_mm: ArrayLike, wall_mm: ArrayLike) -> tuple[NDArray[np.float64], ...]:

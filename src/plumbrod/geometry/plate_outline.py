@@ -183,6 +183,13 @@ def _vector(item: str, value: object) -> np.ndarray:
     return arr
 
 
+def _read_only(vec: np.ndarray) -> np.ndarray:
+    """A read-only float copy of ``vec``."""
+    arr = np.array(vec, dtype=float)
+    arr.flags.writeable = False
+    return arr
+
+
 def _positive(item: str, value: float, *, allow_zero: bool = False) -> float:
     number = float(value)
     ok = number >= 0 if allow_zero else number > 0
@@ -293,13 +300,11 @@ def plate_outline(
         )
     )
     area = float(outline.area - np.sum(np.pi * diameters**2 / 4.0))
-    frozen = []
-    for vec in (origin, u, v, normal):
-        arr = np.array(vec, dtype=float)
-        arr.flags.writeable = False
-        frozen.append(arr)
     return PlateOutline(
-        *frozen,
+        origin=_read_only(origin),
+        u=_read_only(u),
+        v=_read_only(v),
+        normal=_read_only(normal),
         outline=outline,
         holes=holes,
         thickness_mm=thickness,

@@ -132,7 +132,7 @@ class Capsule:
     @property
     def batch_shape(self) -> tuple[int, ...]:
         """Broadcast batch shape of the fields."""
-        return np.broadcast_shapes(self.p0.shape[:-1], self.p1.shape[:-1], self.radius.shape)
+        return np.broadcast_shapes(self.p0.shape[:-1], self.p1.shape[:-1], np.shape(self.radius))
 
 
 @dataclass(frozen=True, eq=False)
@@ -205,7 +205,7 @@ class Cylinder:
     @property
     def batch_shape(self) -> tuple[int, ...]:
         """Broadcast batch shape of the fields."""
-        return np.broadcast_shapes(self.p0.shape[:-1], self.p1.shape[:-1], self.radius.shape)
+        return np.broadcast_shapes(self.p0.shape[:-1], self.p1.shape[:-1], np.shape(self.radius))
 
 
 def _convex_pieces(polygon: shapely.Polygon) -> tuple[np.ndarray, ...]:
@@ -401,7 +401,7 @@ class Plate:
     @property
     def batch_shape(self) -> tuple[int, ...]:
         """Broadcast batch shape of the fields."""
-        return np.broadcast_shapes(self.vertices.shape[:-2], self.thickness.shape)
+        return np.broadcast_shapes(self.vertices.shape[:-2], np.shape(self.thickness))
 
 
 #: Any solid the distance code accepts.

@@ -106,12 +106,12 @@ def build_linkage(design: Design) -> Linkage:
     joint_index = np.full(nb, -1, dtype=np.intp)
     free_index = np.full(nb, -1, dtype=np.intp)
     n_joint = n_free = 0
-    for b in range(nb):
-        if mount_arr[b] in (HINGE, SLIDE):
-            joint_index[b] = n_joint
+    for ib in range(nb):
+        if mount_arr[ib] in (HINGE, SLIDE):
+            joint_index[ib] = n_joint
             n_joint += 1
-        elif mount_arr[b] == FREE:
-            free_index[b] = n_free
+        elif mount_arr[ib] == FREE:
+            free_index[ib] = n_free
             n_free += 1
 
     basis = _free_basis(design.plane)
@@ -120,13 +120,13 @@ def build_linkage(design: Design) -> Linkage:
     parent_arr = np.array(parent, dtype=np.intp)
     order = _topological_order(parent_arr, mount_arr)
     ancestors = np.zeros((nb, nq), dtype=bool)
-    for b in order[1:]:
-        if mount_arr[b] == FREE:
-            f = free_index[b]
-            ancestors[b, n_joint + f * k : n_joint + (f + 1) * k] = True
+    for ib in order[1:]:
+        if mount_arr[ib] == FREE:
+            f = free_index[ib]
+            ancestors[ib, n_joint + f * k : n_joint + (f + 1) * k] = True
             continue
-        ancestors[b] = ancestors[parent_arr[b]]
-        ancestors[b, joint_index[b]] = True
+        ancestors[ib] = ancestors[parent_arr[ib]]
+        ancestors[ib, joint_index[ib]] = True
 
     axis_idx = np.array([[index.get(a, 0), index.get(b, 0)] for a, b in axis_pts], dtype=np.intp)
     ref_idx = np.array([index.get(r, 0) for r in reference], dtype=np.intp)

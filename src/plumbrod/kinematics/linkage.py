@@ -235,7 +235,7 @@ class Linkage:
         return np.concatenate((d_joint, coords.reshape(pose.size, -1)), axis=1)
 
     # -- kinematics ---------------------------------------------------------------
-    def _levels(self) -> list[dict[str, Array]]:
+    def _levels(self) -> list[dict[str, np.ndarray]]:
         """Hinged and sliding bodies grouped by depth in the tree, with axis data (G, n)."""
         if "levels" in self._cache:
             return self._cache["levels"]  # type: ignore[return-value]
@@ -243,9 +243,9 @@ class Linkage:
         for b in self.order[1:]:
             depth[b] = 1 if self.mount[b] == FREE else depth[self.parent[b]] + 1
         axis, origin = self.axis_direction, self.axis_origin
-        levels: list[dict[str, Array]] = []
+        levels: list[dict[str, np.ndarray]] = []
         for level in range(1, int(depth.max(initial=0)) + 1):
-            entry: dict[str, Array] = {}
+            entry: dict[str, np.ndarray] = {}
             for kind, mount in (("hinge", HINGE), ("slide", SLIDE)):
                 bodies = np.flatnonzero((depth == level) & (self.mount == mount))
                 entry[kind] = bodies

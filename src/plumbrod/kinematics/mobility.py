@@ -153,7 +153,7 @@ def _describe_motion(link: Linkage, kin: Kinematics, coords: Array) -> str:
         v, w = twist[0:3], twist[3:6]
         ref = link.points[0, link.reference[b]] if link.mount[b] == FREE else link.axis_origin[0, b]
         v_ref = v + np.cross(w, ref)
-        size = max(np.linalg.norm(v_ref), np.linalg.norm(w) * length)
+        size = float(max(np.linalg.norm(v_ref), np.linalg.norm(w) * length))
         if size > best_size * (1 + 1e-9):
             best_size = size
             best = link.body_names[b]

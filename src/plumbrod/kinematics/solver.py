@@ -76,7 +76,8 @@ def _solve_linear(jac: Array, rhs: Array) -> Array:
     m, n = jac.shape[1], jac.shape[2]
     if m == n:
         try:
-            return np.linalg.solve(jac, rhs[..., None])[..., 0]
+            # numpy's stubs type solve() of float64 arrays as floating[Any]
+            return np.linalg.solve(jac, rhs[..., None])[..., 0]  # type: ignore[return-value]
         except np.linalg.LinAlgError:
             pass
     return (np.linalg.pinv(jac, rcond=1e-12) @ rhs[..., None])[..., 0]
@@ -91,7 +92,8 @@ def tangent(link: Linkage, drive: Drive, kin: Kinematics, jac: Array) -> Array:
     full[:, m - nc :] = p_jac
     if m == jac.shape[2]:
         try:
-            return -np.linalg.solve(jac, full)
+            # numpy's stubs type solve() of float64 arrays as floating[Any]
+            return -np.linalg.solve(jac, full)  # type: ignore[return-value]
         except np.linalg.LinAlgError:
             pass
     return -(np.linalg.pinv(jac, rcond=1e-12) @ full)
@@ -253,8 +255,8 @@ def solve_poses(
             done_params = np.vstack((done_params, params[i]))
             done_pose = concatenate_poses([done_pose, pose_i])
     pose = solved.pose
-    for i, p in fixes:
-        pose = _put(pose, np.array([i]), p)
+    for index, p in fixes:
+        pose = _put(pose, np.array([index]), p)
     kin, res, jac = evaluate(link, drive, pose)
     return Solved(pose, kin, res, jac, solved.iterations)
 

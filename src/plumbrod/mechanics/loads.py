@@ -121,8 +121,8 @@ def applied_loads(
         e = elements.index(route.element)
         for body in route.bodies:
             owner_of_body.setdefault(body, e)
-        for rod in (*route.receiving_rods, *route.delivering_rods):
-            owner_of_rod.setdefault(rod, e)
+        for rod_name in (*route.receiving_rods, *route.delivering_rods):
+            owner_of_rod.setdefault(rod_name, e)
     body_of = {key: p.body for key, p in design.pickups.items()}
     for rod in design.rods:  # rods inside a route, and guides
         for end in (rod.end_a, rod.end_b):

@@ -151,9 +151,9 @@ def solve_statics(
     _add_point_forces(wrench, link.point_body[ends[:, 1]], kin.points[:, ends[:, 1]], -f_a)
     cw = contact.contact_wrench(link, kin)  # (B, nc, 6)
     contact_w = lam[:, n_members:, :, None] * cw[:, :, None, :]  # (B, nc, C, 6)
-    np.add.at(
-        wrench, (slice(None), slice(None), link.corner_upright), contact_w.transpose(0, 2, 1, 3)
-    )
+    # numpy's stubs accept only integer indices in ufunc.at; it takes any index
+    index = (slice(None), slice(None), link.corner_upright)
+    np.add.at(wrench, index, contact_w.transpose(0, 2, 1, 3))  # type: ignore[arg-type]
     f_load = np.einsum("bkli,le->blkei", f_chassis, owner).reshape(n, -1, cols, 3)
     _add_point_forces(wrench, loads.body, lp, f_load)
 
@@ -214,7 +214,9 @@ def _add_point_forces(
 ) -> None:
     """Add forces (B, n, C, 3) at points (B, n, 3) on bodies (n,) to wrench (B, C, nb, 6)."""
     w = np.concatenate((forces, cross(points[:, :, None, :], forces)), axis=-1)
-    np.add.at(wrench, (slice(None), slice(None), bodies), w.transpose(0, 2, 1, 3))
+    index = (slice(None), slice(None), bodies)
+    # numpy's stubs accept only integer indices in ufunc.at; it takes any index
+    np.add.at(wrench, index, w.transpose(0, 2, 1, 3))  # type: ignore[arg-type]
 
 
 def _compliance(link: Linkage, members: dict[str, Member], rows: int) -> Array:
@@ -231,7 +233,8 @@ def _multipliers(jac: Array, q: Array, compliance: Array, elastic: bool) -> Arra
     rhs = -np.swapaxes(q, 1, 2)  # (B, nq, C)
     jt = np.swapaxes(jac, 1, 2)  # (B, nq, m')
     if not elastic:
-        return np.linalg.solve(jt, rhs)
+        # numpy's stubs type solve() of float64 arrays as floating[Any]
+        return np.linalg.solve(jt, rhs)  # type: ignore[return-value]
     n, nq, m = jt.shape
     kkt = np.zeros((n, m + nq, m + nq))
     kkt[:, :m, :m] = np.diag(compliance)

@@ -12,10 +12,13 @@ import os
 import tempfile
 from collections.abc import Callable, Mapping
 from pathlib import Path
+from typing import TypeVar
 
 from plumbrod.errors import OutputError
 
 __all__ = ["write_atomic", "write_many", "write_with"]
+
+_PathT = TypeVar("_PathT", bound=str | os.PathLike[str])
 
 
 def _umask() -> int:
@@ -24,7 +27,7 @@ def _umask() -> int:
     return mask
 
 
-def _prepare(target: Path, writer: Callable[[Path], None]) -> Path:
+def _prepare(target: Path, writer: Callable[[Path], object]) -> Path:
     """Fill a temporary file next to ``target``; returns its path."""
     try:
         if target.is_dir():
@@ -56,7 +59,7 @@ def _prepare(target: Path, writer: Callable[[Path], None]) -> Path:
     return tmp
 
 
-def write_with(path: str | os.PathLike[str], writer: Callable[[Path], None]) -> Path:
+def write_with(path: str | os.PathLike[str], writer: Callable[[Path], object]) -> Path:
     """Call ``writer(tmp_path)`` to fill a temporary file, then rename it to ``path``.
 
     The temporary file is removed if ``writer`` raises; the target is left untouched.
@@ -74,13 +77,18 @@ def write_with(path: str | os.PathLike[str], writer: Callable[[Path], None]) -> 
     return target
 
 
+def _bytes_writer(payload: bytes) -> Callable[[Path], object]:
+    """A writer that fills its temporary file with ``payload``."""
+    return lambda tmp: tmp.write_bytes(payload)
+
+
 def write_atomic(path: str | os.PathLike[str], data: str | bytes) -> Path:
     """Write text (UTF-8) or bytes to ``path`` atomically; returns the final path."""
     payload = data.encode("utf-8") if isinstance(data, str) else data
     return write_with(path, lambda tmp: tmp.write_bytes(payload))
 
 
-def write_many(files: Mapping[str | os.PathLike[str], str | bytes]) -> list[Path]:
+def write_many(files: Mapping[_PathT, str | bytes]) -> list[Path]:
     """Write several files: all temporary files first, then all renames.
 
     If any file cannot be prepared, none is written.  Returns the final paths.
@@ -90,7 +98,7 @@ def write_many(files: Mapping[str | os.PathLike[str], str | bytes]) -> list[Path
         for path, data in files.items():
             payload = data.encode("utf-8") if isinstance(data, str) else data
             target = Path(path)
-            staged.append((_prepare(target, lambda tmp, p=payload: tmp.write_bytes(p)), target))
+            staged.append((_prepare(target, _bytes_writer(payload)), target))
     except BaseException:
         for tmp, _ in staged:
             tmp.unlink(missing_ok=True)

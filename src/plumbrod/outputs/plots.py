@@ -25,7 +25,7 @@ if TYPE_CHECKING:
 
 __all__ = ["plot_findings"]
 
-_LIMIT_STYLE = {"color": "0.35", "linestyle": "--", "linewidth": 1.0}
+_LIMIT_STYLE: dict[str, Any] = {"color": "0.35", "linestyle": "--", "linewidth": 1.0}
 
 
 def _travel(findings: Findings) -> tuple[Any, Any] | None:

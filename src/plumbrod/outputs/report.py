@@ -92,7 +92,7 @@ def _rf_text(rf: float) -> str:
 
 
 def member_rows(findings: Findings) -> list[tuple[str, ...]]:
-    rows = [
+    rows: list[tuple[str, ...]] = [
         (
             "rod",
             "section mm",
@@ -130,7 +130,7 @@ def member_rows(findings: Findings) -> list[tuple[str, ...]]:
 
 
 def mass_rows(findings: Findings) -> list[tuple[str, ...]]:
-    rows = [
+    rows: list[tuple[str, ...]] = [
         ("corner", "static share kg", "kinetic single-wheel kg", "kinetic heave kg", "existing kg")
     ]
     for c in findings.mass.corners:
@@ -197,7 +197,7 @@ def as_text(findings: Findings) -> str:
             "stiffness EA/L, so they depend on the members' stiffness"
         )
     lines.append("")
-    rows = [("check", "status", "value", "limit", "worst at")]
+    rows: list[tuple[str, ...]] = [("check", "status", "value", "limit", "worst at")]
     for c in checks:
         rows.append((c.id, c.status.upper(), _value_text(c), _limit_text(c), c.where))
     lines += _table(rows)

@@ -54,17 +54,17 @@ def _columns_of_sweep(analysis: Analysis, name: str) -> dict[str, Array]:
         for k, case in enumerate(st.cases):
             for rod in design_rods:
                 cols[f"{case}/{rod}/force_N"] = st.rod_force_N[:, k, link.rod_names.index(rod)]
-            for route, force in st.upright_force_N.items():
+            for route_name, force in st.upright_force_N.items():
                 f = force[:, k]
                 for axis, label in enumerate("xyz"):
-                    cols[f"{case}/{route}/upright_F{label}_N"] = f[:, axis]
+                    cols[f"{case}/{route_name}/upright_F{label}_N"] = f[:, axis]
                 size = np.linalg.norm(f, axis=-1)
-                cols[f"{case}/{route}/upright_angle_deg"] = np.degrees(
+                cols[f"{case}/{route_name}/upright_angle_deg"] = np.degrees(
                     np.arccos(np.clip(np.abs(f[:, 2]) / np.where(size > 0, size, 1.0), 0.0, 1.0))
                 )
-                moment = st.upright_moment_Nm[route][:, k]
-                cols[f"{case}/{route}/upright_Mx_Nm"] = moment[:, 0]
-                cols[f"{case}/{route}/upright_My_Nm"] = moment[:, 1]
+                moment = st.upright_moment_Nm[route_name][:, k]
+                cols[f"{case}/{route_name}/upright_Mx_Nm"] = moment[:, 0]
+                cols[f"{case}/{route_name}/upright_My_Nm"] = moment[:, 1]
             for e, element in enumerate(st.elements):
                 leak = st.leakage[:, k, e]
                 cols[f"{case}/{element}/leak_heave_N"] = leak[:, 0]

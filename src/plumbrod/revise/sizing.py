@@ -83,15 +83,11 @@ def choose_sections(
     for entry, rods in groups.items():
         before = analysis.members[rods[0]]
         compression = min(
-            (
-                findings.reserves[r].compression.force_N
-                for r in rods
-                if findings.reserves[r].compression
-            ),
+            (f.force_N for f in (findings.reserves[r].compression for r in rods) if f),
             default=0.0,
         )
         tension = max(
-            (findings.reserves[r].tension.force_N for r in rods if findings.reserves[r].tension),
+            (f.force_N for f in (findings.reserves[r].tension for r in rods) if f),
             default=0.0,
         )
         allowed = [table[m] for m in (materials or [before.material.id])]

@@ -116,11 +116,11 @@ def check_route_ratio(analysis: Analysis) -> CheckResult:
         lines.append(f"{name}: {ratio.min():.4f} to {ratio.max():.4f}")
         if used[i] > worst[0]:
             worst = (float(used[i]), name, i, float(ratio[i]))
-    used, name, i, value = worst
+    use, name, i, value = worst
     return CheckResult(
         "route-ratio",
         title,
-        status_of(used),
+        status_of(use),
         value,
         (lo, hi),
         "mm/mm",
@@ -210,11 +210,11 @@ def check_transmission(analysis: Analysis) -> CheckResult:
             "no rod ends on hinged bodies",
             "",
         )
-    used, value, (rod, body), sweep, i = worst
+    use, value, (rod, body), sweep, i = worst
     return CheckResult(
         "transmission-angle",
         title,
-        status_of(used),
+        status_of(use),
         value,
         (lo, hi),
         "deg",
@@ -347,18 +347,20 @@ def check_member_force(analysis: Analysis) -> CheckResult:
             at(largest) if largest[1] else "no force",
             "; ".join(detail),
         )
-    used, rod, sweep, b, k, rating = worst_rated
-    j = names.index(rod)
-    force = float(analysis.statics[sweep].rod_force_N[b, k, index[j]])
-    detail.append(f"highest use of a rod-end rating {used:.0%} (rod '{rod}', rated {rating:g} N)")
+    use, rod_name, sweep, pose_index, case_index, rating = worst_rated
+    j = names.index(rod_name)
+    force = float(analysis.statics[sweep].rod_force_N[pose_index, case_index, index[j]])
+    detail.append(
+        f"highest use of a rod-end rating {use:.0%} (rod '{rod_name}', rated {rating:g} N)"
+    )
     return CheckResult(
         "member-force",
         title,
-        status_of(used),
+        status_of(use),
         force,
         rating,
         "N",
-        at((force, rod, sweep, b, k)),
+        at((force, rod_name, sweep, pose_index, case_index)),
         "; ".join(detail),
     )
 
@@ -404,7 +406,7 @@ def check_sprung_leakage(analysis: Analysis) -> CheckResult:
             min(pitch[0], float(st.leakage[..., 2].min())),
             max(pitch[1], float(st.leakage[..., 2].max())),
         ]
-    value, element, sweep, b, k, heave = worst
+    value, element, sweep, pose_index, case_index, heave = worst
     st = analysis.statics[sweep]
     status = status_of(value / limit)
     agree = (
@@ -428,7 +430,8 @@ def check_sprung_leakage(analysis: Analysis) -> CheckResult:
         value,
         limit,
         "",
-        f"element '{element}' in {_pose(analysis, sweep, b)}, load case '{st.cases[k]}'",
+        f"element '{element}' in {_pose(analysis, sweep, pose_index)}, "
+        f"load case '{st.cases[case_index]}'",
         detail,
     )
 
@@ -444,10 +447,10 @@ def _reserve_check(
     if not analysis.statics:
         return replace(_no_loads(check_id, title, required, ""), at_least=True)
     worst: tuple[float, RodReserve | None] = (np.inf, None)
-    for reserve in reserves.values():
-        rf = reserve.buckling_rf if kind == "buckling" else reserve.tension_rf
+    for candidate in reserves.values():
+        rf = candidate.buckling_rf if kind == "buckling" else candidate.tension_rf
         if rf < worst[0]:
-            worst = (rf, reserve)
+            worst = (rf, candidate)
     rf, reserve = worst
     if reserve is None:
         none = "no rod is in compression" if kind == "buckling" else "no rod is in tension"

@@ -1,0 +1,99 @@
+"""Build a :class:`~plumbrod.design.model.Design` from the parsed TOML tables: the
+[design] head, then each section in turn, mirroring, and the cross-checks."""
+
+from __future__ import annotations
+
+from typing import Any, cast
+
+from plumbrod.design.build_bodies import read_chassis, read_corners, read_rockers
+from plumbrod.design.build_members import read_elements, read_rods
+from plumbrod.design.build_setup import (
+    read_limits,
+    read_load_cases,
+    read_materials,
+    read_sweeps,
+    read_zones,
+)
+from plumbrod.design.crosscheck import check_geometry, check_references
+from plumbrod.design.mirror import mirrored
+from plumbrod.design.model import Design, Plane
+from plumbrod.design.reader import BuildState
+
+TOP_LEVEL_KEYS = (
+    "design",
+    "chassis",
+    "corners",
+    "rockers",
+    "rods",
+    "elements",
+    "sweeps",
+    "limits",
+    "load_cases",
+    "materials",
+    "zones",
+    "tune",
+)
+
+
+def build_design(data: dict[str, Any], source: str) -> Design:
+    """The validated design of the parsed tables ``data``; ``source`` names the file."""
+    s = BuildState(source)
+    r = s.r
+    r.keys(data, "", TOP_LEVEL_KEYS, required=("design", "corners", "elements"))
+    head = r.keys(
+        data["design"],
+        "design",
+        ("name", "note", "plane", "mirror", "top_speed_kmh"),
+        required=("name",),
+    )
+    name = r.string(head["name"], "design.name")
+    note = r.string(head.get("note", ""), "design.note")
+    plane: Plane | None = None
+    if "plane" in head:
+        # string() has checked that the value is one of the choices
+        plane = cast(Plane, r.string(head["plane"], "design.plane", ("front", "side")))
+    mirror = r.boolean(head.get("mirror", False), "design.mirror")
+    top_speed = None
+    if "top_speed_kmh" in head:
+        top_speed = r.number(head["top_speed_kmh"], "design.top_speed_kmh", positive=True)
+    if mirror and plane == "side":
+        r.fail(
+            "design.mirror",
+            "a side-view planar design has no left and right",
+            'remove mirror, or use plane = "front"',
+        )
+    r.plane = plane
+
+    read_chassis(s, data.get("chassis", {}))
+    corners = read_corners(s, data["corners"])
+    rockers = read_rockers(s, data.get("rockers", {}), corners)
+    elements = read_elements(s, data["elements"])
+    rods = read_rods(s, data.get("rods", {}))
+    sweeps = read_sweeps(s, data.get("sweeps", {}), plane)
+    limits = read_limits(s, data.get("limits", {}))
+    materials = read_materials(s, data.get("materials", {}))
+    load_cases = read_load_cases(s, data.get("load_cases", {}), elements)
+    zones = read_zones(s, data.get("zones", {}))
+
+    design = Design(
+        name=name,
+        source=source,
+        plane=plane,
+        corners=tuple(corners),
+        rockers=tuple(rockers),
+        rods=tuple(rods),
+        elements=tuple(elements),
+        pickups=dict(s.pickups),
+        sweeps=sweeps,
+        limits=limits,
+        load_cases=tuple(load_cases),
+        materials=tuple(materials),
+        zones=tuple(zones),
+        note=note,
+        top_speed_kmh=top_speed,
+    )
+    if mirror:
+        design = mirrored(design, r, s.pickup_where)
+    check_references(s, design, mirror)
+    check_geometry(s, design, mirror)
+    return design
