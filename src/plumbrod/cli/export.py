@@ -18,13 +18,18 @@ __all__ = ["export_files", "register", "run"]
 def register(subparsers: Any) -> None:
     parser = subparsers.add_parser(
         "export",
-        help="write DXF files: the design as a 3D wireframe and each rocker plate's cut profile",
+        help="write DXF files: a 2D drawing sheet, a 3D wireframe and each rocker plate's "
+        "cut profile",
         description=(
-            "Solve the design, then write <name>-route.dxf (the design pose as a 3D "
+            "Solve the design, then write <name>-sheet.dxf (for 2D CAD: side, front, top "
+            "and isometric views with the swept envelope of every moving member, zones, "
+            "tyres, tagged hardpoints, a hardpoint table and a title block), "
+            "<name>-route.dxf (for 3D CAD: the design pose as a 3D "
             "wireframe in mm: rods, rocker axes, wishbones, tyres, zones, labelled "
             "hardpoints) and one <name>-plate-<rocker>.dxf per rocker with plate data "
             "(the flat cut profile 1:1 in mm: one closed outer polyline with true arcs "
-            "and the holes as circles on cut layers; notes on other layers). Files are "
+            "and the holes as circles on cut layers; marks and notes on NOCUT_ layers; a "
+            "torsion rocker gets a note instead). Files are "
             "written whole or not at all. Prints the verdict line and exits 1 when a "
             "check fails, like `plumbrod check`."
         ),

@@ -166,7 +166,8 @@ class ViewShapes:
         for _, c, r in self.circles:
             pts += [c - r, c + r]
         arr = np.array(pts, dtype=float).reshape(-1, 2)
-        return (*arr.min(axis=0), *arr.max(axis=0))  # type: ignore[return-value]
+        low, high = arr.min(axis=0), arr.max(axis=0)
+        return (float(low[0]), float(low[1]), float(high[0]), float(high[1]))
 
 
 def _poses(analysis: Analysis) -> tuple[Array, Array, Array]:
@@ -384,21 +385,25 @@ def view_shapes(
         ]
         if w.tie_rod_inner_mm is not None and w.tie_rod_outer_mm is not None:
             segments.append((w.tie_rod_inner_mm, w.tie_rod_outer_mm))
-        for a, b in dict.fromkeys(segments):
-            if a != b:
+        for start, end in dict.fromkeys(segments):
+            if start != end:
                 shapes.lines.append(
-                    (layers["suspension"], project(np.array(a), view), project(np.array(b), view))
+                    (
+                        layers["suspension"],
+                        project(np.array(start), view),
+                        project(np.array(end), view),
+                    )
                 )
 
     # tyres at the design pose: a circle seen along the spin axis, else a rectangle
     if design.plane != "side" or view == "side":
-        for c, corner in enumerate(design.corners):
+        for k, corner in enumerate(design.corners):
             centre = np.array(corner.wheel_centre_mm)
-            spin = np.asarray(link.spin_axis[c], dtype=float)
+            spin = np.asarray(link.spin_axis[k], dtype=float)
             spin = spin / np.linalg.norm(spin)
-            half = corner.tyre_width_mm / 2.0
+            half_width = corner.tyre_width_mm / 2.0
             drawn = _cylinder_outline(
-                centre - half * spin, centre + half * spin, corner.tyre_radius_mm, view
+                centre - half_width * spin, centre + half_width * spin, corner.tyre_radius_mm, view
             )
             if isinstance(drawn, tuple):
                 shapes.circles.append((layers["tyres"], drawn[0], drawn[1]))
