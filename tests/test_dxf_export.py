@@ -224,8 +224,7 @@ def test_files_read_back_clean_in_mm(exported):
         }[name]
         plates = sorted(part.name for part in plate_parts(analysis.design)[0])
         assert sorted(p.name for p in folder.iterdir()) == sorted(
-            [f"{stem}-route.dxf", f"{stem}-sheet.dxf"]
-            + [f"{stem}-plate-{r}.dxf" for r in plates]
+            [f"{stem}-route.dxf", f"{stem}-sheet.dxf"] + [f"{stem}-plate-{r}.dxf" for r in plates]
         )  # no temp files
         for path in paths:
             doc = _read(path)
