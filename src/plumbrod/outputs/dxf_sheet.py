@@ -37,7 +37,7 @@ import numpy as np
 
 from plumbrod import __version__
 from plumbrod.mechanics.analysis import Analysis
-from plumbrod.outputs.dxf_export import LayerSpec, _finish, _new_document, _text
+from plumbrod.outputs.dxf_common import LayerSpec, finish, new_document, text
 from plumbrod.outputs.sheet_geometry import Hardpoint, ViewShapes, hardpoints, view_shapes
 
 if TYPE_CHECKING:  # pragma: no cover
@@ -192,8 +192,8 @@ def _place_tags(
     for p, tags in groups:
         msp.add_point((float(p[0]), float(p[1])), dxfattribs={"layer": MARKS.name})
         msp.add_circle((float(p[0]), float(p[1])), radius, dxfattribs={"layer": MARKS.name})
-        text = ",".join(tags) if len(tags) <= 3 else f"{','.join(tags[:2])}+{len(tags) - 2}"
-        width = 0.75 * height * len(text)
+        tag = ",".join(tags) if len(tags) <= 3 else f"{','.join(tags[:2])}+{len(tags) - 2}"
+        width = 0.75 * height * len(tag)
         d = radius + 0.3 * height
         spots = [
             (p[0] + d, p[1] + d * 0.2),
@@ -208,7 +208,7 @@ def _place_tags(
         boxes = [(x, y, x + width, y + height) for x, y in spots]
         k = next((i for i, box in enumerate(boxes) if not _boxes_overlap(box, taken)), 0)
         taken.append(boxes[k])
-        _text(msp, text, spots[k], height, TAGS.name)
+        text(msp, tag, spots[k], height, TAGS.name)
 
 
 def _table(
@@ -222,7 +222,7 @@ def _table(
     widths = [max(len(r[i]) for r in rows) * 0.8 * height + 1.5 * height for i in range(6)]
     pitch = 1.7 * height
     x0, y0 = corner
-    _text(
+    text(
         msp, "HARDPOINTS at the design pose (mm, ISO 8855 axes)", (x0, y0), height * 1.2, TABLE.name
     )
     for k, row in enumerate(rows):
@@ -231,7 +231,7 @@ def _table(
         for i, cell in enumerate(row):
             right = i >= 3
             at = (x + widths[i] - 1.5 * height, y) if right else (x, y)
-            _text(msp, cell, at, height, TABLE.name, align="RIGHT" if right else "LEFT")
+            text(msp, cell, at, height, TABLE.name, align="RIGHT" if right else "LEFT")
             x += widths[i]
     total_w = sum(widths)
     bottom = y0 - (len(rows) + 1.2) * pitch
@@ -251,7 +251,7 @@ def sheet_drawing(analysis: Analysis, *, dxf_version: str = "R2010") -> Drawing:
         LayerSpec(_layer_name(layer[len("ENVELOPE_") :]), ENVELOPE_COLOUR)
         for layer in envelope_layers
     ]
-    doc = _new_document(dxf_version, specs)
+    doc = new_document(dxf_version, specs)
     doc.header["$PDMODE"] = 0  # a dot; the circle around it makes the mark
     doc.header["$LTSCALE"] = 2.0 * height  # dashes a few text heights long
     msp = doc.modelspace()
@@ -272,7 +272,7 @@ def sheet_drawing(analysis: Analysis, *, dxf_version: str = "R2010") -> Drawing:
         _place_tags(msp, [(t, view.place(p)) for t, p in s.marks], height, taken)
         x0, _, _, y1 = s.bounds()
         corner = view.place(np.array([x0, y1]))
-        _text(
+        text(
             msp,
             f"{_VIEW_NAMES[name]}   scale 1:1",
             (corner[0], corner[1] + 2.5 * height),
@@ -308,7 +308,7 @@ def sheet_drawing(analysis: Analysis, *, dxf_version: str = "R2010") -> Drawing:
     title_top = top - tall - 6.0 * height
     pitch = 1.8 * height
     for k, line in enumerate(lines):
-        _text(
+        text(
             msp,
             line,
             (right + height, title_top - (k + 1) * pitch),
@@ -327,4 +327,4 @@ def sheet_drawing(analysis: Analysis, *, dxf_version: str = "R2010") -> Drawing:
         ]
     )
     _polyline(msp, frame, TITLE_BLOCK.name)
-    return _finish(doc)
+    return finish(doc)
