@@ -11,6 +11,7 @@ from plumbrod.outputs.cautions import CAUTION
 
 if TYPE_CHECKING:  # pragma: no cover
     from plumbrod.mechanics.analysis import Analysis
+    from plumbrod.verdict.findings import Findings
 
 __all__ = ["export_files", "register", "run"]
 
@@ -72,11 +73,14 @@ def export_files(
     stem: str | None = None,
     cut_only: bool = False,
     notes: list[str] | None = None,
+    report: Findings | None = None,
 ) -> list[Path]:
     """Write the DXF files of a solved design (and PNG previews when ``png``) into
     ``folder``; every file is prepared before any is renamed into place.  Returns the
     paths written; ``notes`` (when given) receives one line per plate not written and
-    why.  ``plumbrod demo`` can call this with the bundled example."""
+    why; with ``report`` (the reviewed findings) ``<stem>-report.html`` is written in
+    the same all-or-nothing step.  ``plumbrod demo`` calls this with the bundled
+    example."""
     from plumbrod.outputs.atomic import write_many
     from plumbrod.outputs.dxf_export import drawing_set, dxf_bytes
 
@@ -85,14 +89,20 @@ def export_files(
     if notes is not None:
         notes.extend(found.notes)
     out = Path(folder)
-    files: dict[Path, bytes] = {out / name: dxf_bytes(doc) for name, doc in drawings.items()}
+    files: dict[Path, str | bytes] = {out / name: dxf_bytes(doc) for name, doc in drawings.items()}
     if png:
         from plumbrod.outputs.dxf_preview import preview_png, route_view
 
         for name, doc in drawings.items():
             view = route_view(analysis.design) if name.endswith("-route.dxf") else "top"
             files[(out / name).with_suffix(".png")] = preview_png(doc, view=view)
-    return write_many(files)
+    if report is not None:
+        from plumbrod.cli.report import report_html
+
+        sheet = next(doc for name, doc in drawings.items() if name.endswith("-sheet.dxf"))
+        base = next(name for name in drawings if name.endswith("-route.dxf"))[: -len("-route.dxf")]
+        files[out / f"{base}-report.html"] = report_html(report, notes=found.notes, sheet=sheet)
+    return write_many(dict(files))
 
 
 def run(args: argparse.Namespace) -> int:
@@ -101,15 +111,17 @@ def run(args: argparse.Namespace) -> int:
     from plumbrod.verdict.findings import review
 
     findings = review(load_design(args.design))
+    stem = Path(args.design).stem
     notes: list[str] = []
     written = export_files(
         findings.analysis,
         args.output_dir,
         dxf_version=args.dxf_version,
         png=args.png,
-        stem=Path(args.design).stem,
+        stem=stem,
         cut_only=args.cut_only,
         notes=notes,
+        report=findings,
     )
     for path in written:
         sys.stdout.write(f"wrote {path}\n")

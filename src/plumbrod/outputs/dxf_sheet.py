@@ -44,7 +44,7 @@ if TYPE_CHECKING:  # pragma: no cover
     from ezdxf.document import Drawing
     from ezdxf.layouts import Modelspace
 
-__all__ = ["SHEET_LAYERS", "SheetView", "design_sha256", "sheet_drawing", "sheet_views"]
+__all__ = ["SHEET_LAYERS", "SheetView", "design_sha256", "sheet_drawing", "sheet_views", "today"]
 
 _LAYERS = {
     "rods": LayerSpec("MEMBERS_ROUTE_RODS", 1),
@@ -108,7 +108,8 @@ def design_sha256(analysis: Analysis) -> str:
         return ""
 
 
-def _today() -> str:
+def today() -> str:
+    """Today (UTC) as YYYY-MM-DD, or the day of SOURCE_DATE_EPOCH when that is set."""
     epoch = os.environ.get("SOURCE_DATE_EPOCH")
     if epoch and epoch.isdigit():
         return _dt.datetime.fromtimestamp(int(epoch), _dt.UTC).date().isoformat()
@@ -298,7 +299,7 @@ def sheet_drawing(analysis: Analysis, *, dxf_version: str = "R2010") -> Drawing:
         f"views: {scales}",
         f"design file {Path(design.source).name}, SHA-256 "
         + (digest[:12] if digest else "(not from a file)"),
-        f"plumbrod {__version__}, {_today()}",
+        f"plumbrod {__version__}, {today()}",
         "swept envelopes (ENVELOPE_* layers): each moving member over every sweep; keep "
         "bodywork out of them",
         "dashed outlines around zones: their clearance limits",

@@ -78,13 +78,14 @@ def new_figure(width_in: float, height_in: float) -> Figure:
     return figure
 
 
-def figure_bytes(figure: Figure, fmt: str, *, dpi: int = 110) -> bytes:
-    """The figure as PNG or SVG bytes; SVG without a date and with fixed ids, so the
-    same figure gives the same bytes."""
+def figure_bytes(figure: Figure, fmt: str, *, dpi: int = 110, salt: str = "plumbrod") -> bytes:
+    """The figure as PNG or SVG bytes; SVG without a date and with ids fixed by ``salt``
+    (so the same figure gives the same bytes, and figures with different salts can sit
+    in one HTML page without sharing ids)."""
     import matplotlib
 
     out = io.BytesIO()
-    with matplotlib.rc_context({"svg.hashsalt": "plumbrod", "svg.fonttype": "none"}):
+    with matplotlib.rc_context({"svg.hashsalt": salt, "svg.fonttype": "none"}):
         metadata = {"Date": None} if fmt == "svg" else None
         figure.savefig(out, format=fmt, dpi=dpi, metadata=metadata, facecolor="white")
     return out.getvalue()

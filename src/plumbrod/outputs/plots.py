@@ -81,7 +81,7 @@ def figure_files(
     out: dict[str, bytes] = {}
     for name, figure in figures(findings).items():
         for fmt in formats:
-            out[f"{stem}-{name}.{fmt}"] = figure_bytes(figure, fmt)
+            out[f"{stem}-{name}.{fmt}"] = figure_bytes(figure, fmt, salt=f"plumbrod-{name}")
     return out
 
 
