@@ -21,12 +21,14 @@ from plumbrod.mechanics.ride import (
     QuarterCar,
     Unstable,
     band_limited_mean_squares,
+    combined_mean_square,
     gaussian_exceedance,
     lyapunov_mean_squares,
     mean_squares,
     natural_frequencies_Hz,
     ride_frequency_Hz,
     simulate,
+    state_space,
     static_drop_m,
     transfer,
     wheel_hop_estimate_Hz,
@@ -184,6 +186,20 @@ def test_closed_form_equals_lyapunov(
     closed, lyap = mean_squares(car, g), lyapunov_mean_squares(car, g)
     for name in OUTPUTS:
         assert closed[name] == pytest.approx(lyap[name], rel=1e-9), name
+
+
+def test_weighted_sum_of_outputs_against_lyapunov() -> None:
+    # reference: the state covariance P of solve_continuous_lyapunov, var(cᵀx) = cᵀPc,
+    # for a point that moves with 80 % of the wheel (route ratio 0.8)
+    from scipy.linalg import solve_continuous_lyapunov
+
+    car = dataclasses.replace(INVENTED, aero_N_m=3e3, aero_on="unsprung")
+    g = velocity_psd_m2_s(class_mean_m3("B"), 35.0)
+    a, b, rows = state_space(car)
+    p = solve_continuous_lyapunov(a, -0.5 * g * np.outer(b, b))
+    row = 0.2 * rows["body_height"] + 0.8 * rows["wheel_height"]
+    weights = {"body_height": 0.2, "wheel_height": 0.8}
+    assert combined_mean_square(car, g, weights) == pytest.approx(row @ p @ row, rel=1e-9)
 
 
 def test_closed_form_against_the_frequency_domain_integral() -> None:

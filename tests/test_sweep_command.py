@@ -26,7 +26,13 @@ CASES = {
 RODS = ("drive", "hanger", "guide_upper", "guide_lower")
 POSES = {"travel": 5, "heave": 21, "pitch": 21}
 UNITS = ("_mm", "_deg", "_N", "_Nm")
-DIMENSIONLESS = ("route_ratio", "leak_fraction")
+DIMENSIONLESS = (
+    "route_ratio",
+    "leak_fraction",
+    "spring_share",
+    "spring_share_floor",
+    "spring_share_bolted",
+)
 
 
 def _env() -> dict[str, str]:

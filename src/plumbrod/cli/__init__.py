@@ -17,6 +17,7 @@ COMMAND_MODULES: tuple[str, ...] = (
     "tune",
     "export",
     "report",
+    "tradeoff",
     "new",
     "demo",
 )

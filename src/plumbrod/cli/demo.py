@@ -65,6 +65,13 @@ def run(args: argparse.Namespace) -> int:
     print("")
     for path in written:
         print(f"wrote {path}")
+    if analysis.design.tradeoff is not None:
+        from plumbrod.verdict.tradeoff import study_tradeoff
+
+        print("")
+        print("ride study (plumbrod tradeoff, an idealised linear quarter car):")
+        for axle in study_tradeoff(analysis, findings.mass).axles.values():
+            print(f"  {axle.sentence}")
     print("")
     print("next:")
     print(f"  edit a copy of {design_path} (or start fresh: plumbrod new my_car.toml)")
@@ -74,6 +81,7 @@ def run(args: argparse.Namespace) -> int:
     print(f"  plumbrod export {design_path} --png     DXF sheet, 3D wireframe, plate cut files")
     print(f"  plumbrod report {design_path}           the one-file HTML review report")
     print(f"  plumbrod size {design_path}             lighter tubes that keep the reserves")
+    print(f"  plumbrod tradeoff {design_path}         bolted against routed on rough roads")
     print("  plumbrod column --od 16 --wall 1 --length 400 --material 4130-N --load -2000")
     print("  the other examples: examples/ in the source tree (see examples/README.md)")
     return 1 if verdict(findings.checks) == "fail" else 0

@@ -14,10 +14,12 @@ from plumbrod.design.build_setup import (
     read_sweeps,
     read_zones,
 )
+from plumbrod.design.car import car_layout, read_car, with_default_motion_centre
 from plumbrod.design.crosscheck import check_geometry, check_references
 from plumbrod.design.mirror import mirrored
 from plumbrod.design.model import Design, Plane
 from plumbrod.design.reader import BuildState
+from plumbrod.design.tradeoff_spec import read_tradeoff
 
 TOP_LEVEL_KEYS = (
     "design",
@@ -32,6 +34,8 @@ TOP_LEVEL_KEYS = (
     "materials",
     "zones",
     "tune",
+    "car",
+    "tradeoff",
 )
 
 
@@ -74,6 +78,8 @@ def build_design(data: dict[str, Any], source: str) -> Design:
     materials = read_materials(s, data.get("materials", {}))
     load_cases = read_load_cases(s, data.get("load_cases", {}), elements)
     zones = read_zones(s, data.get("zones", {}))
+    car = read_car(r, data.get("car", {}))
+    tradeoff = read_tradeoff(data.get("tradeoff"), r)
 
     design = Design(
         name=name,
@@ -91,9 +97,13 @@ def build_design(data: dict[str, Any], source: str) -> Design:
         zones=tuple(zones),
         note=note,
         top_speed_kmh=top_speed,
+        car=car,
+        motion_centre_given="motion_centre_mm" in data.get("sweeps", {}),
+        tradeoff=tradeoff,
     )
     if mirror:
         design = mirrored(design, r, s.pickup_where)
     check_references(s, design, mirror)
     check_geometry(s, design, mirror)
-    return design
+    car_layout(design)  # the corners make a two-axle car that agrees with [car]
+    return with_default_motion_centre(design)

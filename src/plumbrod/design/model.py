@@ -14,9 +14,12 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Literal
 
+from plumbrod.design.tradeoff_spec import TradeoffSpec
+
 __all__ = [
     "CHASSIS",
     "AeroData",
+    "Car",
     "Corner",
     "Design",
     "Element",
@@ -28,6 +31,7 @@ __all__ = [
     "PlateSpec",
     "Rocker",
     "Rod",
+    "Strike",
     "Sweeps",
     "Vec3",
     "Wishbones",
@@ -176,6 +180,16 @@ class Element:
     inertia_kg_m2: Vec3 | None = None
     """Moments of inertia about the cg along x, y, z (kg·m²); estimated when missing."""
     envelope: Envelope | None = None
+    strike: Strike | None = None
+    """A ground strike to check as its own load case (off unless the design names one)."""
+
+
+@dataclass(frozen=True)
+class Strike:
+    """A ground strike on an element: an upward force at a point (N, mm)."""
+
+    force_N: float
+    at_mm: Vec3
 
 
 @dataclass(frozen=True)
@@ -201,6 +215,28 @@ class LoadCase:
     lateral_g: float = 0.0
     air_density_kg_m3: float = 1.225
     forces_N: dict[str, Vec3] = field(default_factory=dict)
+    forces_at_mm: dict[str, Vec3] = field(default_factory=dict)
+    """Where a given force acts (design position on the element), instead of the
+    centre of pressure."""
+
+
+@dataclass(frozen=True)
+class Car:
+    """The car around the route (``[car]``): what the design's corners do not say.
+
+    Every value is optional; :func:`plumbrod.design.car.car_layout` derives the rest
+    from the corners.  ``roll_stiffness_front_share`` is the front axle's share of the
+    car's roll stiffness (springs and bars), 0.5 unless given (common practice: give
+    your car's).
+    """
+
+    wheelbase_mm: float | None = None
+    track_front_mm: float | None = None
+    track_rear_mm: float | None = None
+    roll_stiffness_front_share: float = 0.5
+    roll_share_given: bool = False
+    wheel_rate_front_N_per_mm: float | None = None
+    wheel_rate_rear_N_per_mm: float | None = None
 
 
 @dataclass(frozen=True)
@@ -248,6 +284,8 @@ class Limits:
     tension_reserve: float = 2.0
     clearance_mm: float = 5.0
     compliance_mm: float = 1.0
+    element_attitude_deg: float = 0.5
+    """plumbrod's own default, no source: choose yours."""
 
 
 @dataclass(frozen=True)
@@ -272,6 +310,11 @@ class Design:
     note: str = ""
     top_speed_kmh: float | None = None
     """Speed of the default load cases when the design gives none."""
+    car: Car = field(default_factory=Car)
+    motion_centre_given: bool = True
+    """False when ``[sweeps] motion_centre_mm`` took its default."""
+    tradeoff: TradeoffSpec | None = None
+    """The ride study's inputs (``[tradeoff]``), when the design has them."""
 
     def corner(self, name: str) -> Corner:
         """The corner called ``name``."""

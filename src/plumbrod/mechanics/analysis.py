@@ -22,6 +22,7 @@ from plumbrod.kinematics.routes import RouteMap, find_routes
 from plumbrod.kinematics.sweeps import SweepResult, run_sweeps
 from plumbrod.mechanics.loads import AppliedLoads, applied_loads, design_load_cases
 from plumbrod.mechanics.members import Member, resolve_members
+from plumbrod.mechanics.springs import SpringLoads, spring_loads
 from plumbrod.mechanics.statics import Statics, solve_statics
 
 __all__ = ["Analysis", "analyse"]
@@ -41,6 +42,8 @@ class Analysis:
     loads: AppliedLoads | None
     """None when the design has no load case (no aero data or top speed)."""
     statics: dict[str, Statics]
+    springs: SpringLoads | None = None
+    """Spring-load changes (DESIGN §5a); None without a load case."""
 
 
 def locate(design: Design) -> tuple[Linkage, Mobility, RouteMap]:
@@ -86,4 +89,11 @@ def analyse(design: Design) -> Analysis:
             name: solve_statics(link, routes, members, loads, res) for name, res in sweeps.items()
         }
     )
-    return Analysis(design, link, mobility, routes, sweeps, figures, members, loads, statics)
+    springs = (
+        None
+        if loads is None or not statics
+        else spring_loads(link, routes, members, loads, sweeps, statics)
+    )
+    return Analysis(
+        design, link, mobility, routes, sweeps, figures, members, loads, statics, springs
+    )

@@ -37,6 +37,7 @@ __all__ = [
     "QuarterCar",
     "Unstable",
     "band_limited_mean_squares",
+    "combined_mean_square",
     "gaussian_exceedance",
     "lyapunov_mean_squares",
     "mean_squares",
@@ -162,6 +163,19 @@ def mean_squares(car: QuarterCar, velocity_psd: float) -> dict[str, float]:
     """Closed-form mean square of every output for a white road velocity of one-sided
     density ``velocity_psd`` (m²/s² per Hz); units: the outputs' squared."""
     return {name: 0.5 * velocity_psd * _i4(*transfer(car, name)) for name in OUTPUTS}
+
+
+def combined_mean_square(car: QuarterCar, velocity_psd: float, weights: dict[str, float]) -> float:
+    """Closed-form mean square of a weighted sum of outputs, Σ wᵢ·yᵢ (e.g. a point that
+    moves with a share R of the wheel: (1 − R)·body_height + R·wheel_height)."""
+    total = Polynomial([0.0])
+    delta = None
+    for name, weight in weights.items():
+        num, delta = transfer(car, name)
+        total = total + weight * num
+    if delta is None:
+        return 0.0
+    return 0.5 * velocity_psd * _i4(total, delta)
 
 
 # -- state space, the reference solutions --------------------------------------------

@@ -1,7 +1,8 @@
 """Reports of an analysis: a readable text table and JSON.
 
 JSON layout (documented in the README): top-level ``design``, ``checks``, ``sweeps``,
-plus ``verdict``, ``location``, ``routes`` and ``caution``.  Every key that carries a
+``springs`` (:mod:`plumbrod.outputs.springs_report`), plus ``verdict``, ``location``,
+``routes`` and ``caution``.  Every key that carries a
 unit says it (``_mm``, ``_deg``, ``_N``).
 """
 
@@ -16,6 +17,7 @@ from numpy.typing import NDArray
 from plumbrod.mechanics.analysis import Analysis
 from plumbrod.mechanics.members import Member
 from plumbrod.outputs.cautions import CAUTION
+from plumbrod.outputs.springs_report import springs_json, springs_lines
 from plumbrod.verdict.checks import CheckResult
 from plumbrod.verdict.findings import Findings
 
@@ -206,6 +208,7 @@ def as_text(findings: Findings) -> str:
         lines.append("")
         for c in details:
             lines.append(f"{c.id}: {c.detail}")
+    lines += springs_lines(analysis)
     if findings.reserves and analysis.statics:
         lines += ["", "members (worst over every sweep and load case; force + tension)"]
         lines += _table(member_rows(findings))
@@ -376,6 +379,7 @@ def as_json(findings: Findings, *, indent: int | None = 1) -> str:
                 k: _finite(v) for k, v in findings.compliance.route_stiffness_N_per_mm.items()
             }
         },
+        "springs": springs_json(analysis),
         "sweeps": sweep_json(analysis),
         "caution": CAUTION,
     }

@@ -1,7 +1,14 @@
 """One row per solved pose: positions, ratios, angles and forces, for CSV and JSON.
 
 Column names are ``<item>/<quantity>_<unit>`` (load-case columns start with the case:
-``<case>/<item>/<quantity>_<unit>``), so every column says its unit.
+``<case>/<item>/<quantity>_<unit>``), so every column says its unit.  Spring columns
+(DESIGN §5a; names kept stable for other programs): ``<case>/front_axle/spring_delta_N``
+and ``rear_axle`` (every element together, + = more compressed), the same with
+``_bolted_N`` and ``_floor_N``, per corner ``<case>/<corner>/spring_delta_N`` (corners
+the design does not hold are ``front_left``, ``front_right``, ``rear_left``,
+``rear_right``) and ``tyre_load_gain_N``, and per element ``<case>/<element>/spring_share``
+and ``spring_share_floor`` (largest |axle change| / the element's vertical load).
+Empty where a figure needs ``[car] wheelbase_mm``.
 """
 
 from __future__ import annotations
@@ -77,6 +84,36 @@ def _columns_of_sweep(analysis: Analysis, name: str) -> dict[str, Array]:
                 cols[f"{case}/{element}/leak_fraction"] = np.divide(
                     leak[:, 0], load, out=np.zeros(n), where=np.abs(load) > 1e-9
                 )
+    if analysis.springs is not None and name in analysis.springs.sweeps:
+        cols.update(_spring_columns(analysis, name))
+    return cols
+
+
+def _spring_columns(analysis: Analysis, name: str) -> dict[str, Array]:
+    springs = analysis.springs
+    assert springs is not None
+    sp = springs.sweeps[name]
+    cols: dict[str, Array] = {}
+    for k, case in enumerate(springs.cases):
+        for a, axle in enumerate(("front_axle", "rear_axle")):
+            cols[f"{case}/{axle}/spring_delta_N"] = sp.axle_N[:, k, :, a].sum(axis=1)
+            cols[f"{case}/{axle}/spring_delta_bolted_N"] = sp.axle_bolted_N[:, k, :, a].sum(axis=1)
+            cols[f"{case}/{axle}/spring_delta_floor_N"] = sp.axle_floor_N[:, k, :, a].sum(axis=1)
+        for s, spring in enumerate(springs.spring_names):
+            cols[f"{case}/{spring}/spring_delta_N"] = sp.spring_N[:, k, :, s].sum(axis=1)
+            cols[f"{case}/{spring}/spring_delta_bolted_N"] = sp.spring_bolted_N[:, k, :, s].sum(
+                axis=1
+            )
+            cols[f"{case}/{spring}/tyre_load_gain_N"] = sp.tyre_gain_N[:, k, s]
+        for e, element in enumerate(springs.elements):
+            load = np.abs(sp.vertical_load_N[:, k, e])
+            safe = np.where(load > 1e-9, load, np.nan)
+            for key, arr in (
+                ("spring_share", sp.axle_N),
+                ("spring_share_floor", sp.axle_floor_N),
+                ("spring_share_bolted", sp.axle_bolted_N),
+            ):
+                cols[f"{case}/{element}/{key}"] = np.abs(arr[:, k, e]).max(axis=-1) / safe
     return cols
 
 

@@ -20,6 +20,7 @@ from plumbrod.clearance.survey import ClearanceReport, clearance_report
 from plumbrod.mechanics.analysis import Analysis
 from plumbrod.mechanics.compliance import ComplianceReport, compliance_report
 from plumbrod.mechanics.structure import RodReserve, rod_reserves
+from plumbrod.verdict.spring_words import element_sentence
 
 __all__ = ["WARN_FRACTION", "CheckResult", "evaluate_checks", "status_of"]
 
@@ -370,45 +371,24 @@ LEAKAGE_AGREEMENT = 0.005
 
 
 def check_sprung_leakage(analysis: Analysis) -> CheckResult:
+    """The avoidable spring-load change (DESIGN §5a): the largest |axle change − floor|
+    over axles, poses and load cases, as a share of the element's vertical load."""
     limit = analysis.design.limits.sprung_leakage
-    title = "Sprung leakage: share of each element's vertical load reaching the chassis"
-    if not analysis.statics:
+    title = "Sprung leakage: spring-load change the route adds beyond the floor statics forces"
+    springs = analysis.springs
+    if not analysis.statics or springs is None:
         return _no_loads("sprung-leakage", title, limit, "")
-    worst = (-1.0, "", "", 0, 0, 0.0)
+    worst = max(springs.per_element.values(), key=lambda es: es.avoidable)
+    sweep, b, k, a = worst.avoidable_where
     gap = 0.0
-    roll = [np.inf, -np.inf]
-    pitch = [np.inf, -np.inf]
-    for sweep, st in analysis.statics.items():
-        load = st.vertical_load_N  # (B, K, E)
-        safe = np.where(np.abs(load) > 1e-9, load, np.nan)
-        fraction = np.abs(st.leakage[..., 0] / safe)
-        fraction = np.where(np.isnan(fraction), 0.0, fraction)
-        b, k, e = np.unravel_index(int(np.argmax(fraction)), fraction.shape)
-        if fraction[b, k, e] > worst[0]:
-            worst = (
-                float(fraction[b, k, e]),
-                st.elements[e],
-                sweep,
-                int(b),
-                int(k),
-                float(st.leakage[b, k, e, 0]),
-            )
-        scale = np.maximum(np.abs(load), 1e-9)[..., None]
+    for st in analysis.statics.values():
+        scale = np.maximum(np.abs(st.vertical_load_N), 1e-9)[..., None]
         lever = analysis.link.characteristic_length() / 1000.0
         diff = np.abs(st.leakage - st.leakage_virtual_work) / scale
         diff[..., 1:] /= lever
         gap = max(gap, float(diff.max()))
-        roll = [
-            min(roll[0], float(st.leakage[..., 1].min())),
-            max(roll[1], float(st.leakage[..., 1].max())),
-        ]
-        pitch = [
-            min(pitch[0], float(st.leakage[..., 2].min())),
-            max(pitch[1], float(st.leakage[..., 2].max())),
-        ]
-    value, element, sweep, pose_index, case_index, heave = worst
-    st = analysis.statics[sweep]
-    status = status_of(value / limit)
+    gap = max(gap, springs.virtual_work_gap)
+    status = status_of(worst.avoidable / limit)
     agree = (
         f"direct and virtual-work figures agree within {gap:.1e} of the load"
         if gap <= LEAKAGE_AGREEMENT
@@ -416,22 +396,23 @@ def check_sprung_leakage(analysis: Analysis) -> CheckResult:
     )
     if gap > LEAKAGE_AGREEMENT and status == "pass":
         status = "warn"
-    detail = (
-        f"heave force {heave:+.1f} N at the worst pose; roll moment {roll[0]:+.1f} to "
-        f"{roll[1]:+.1f} N·m, pitch moment {pitch[0]:+.1f} to {pitch[1]:+.1f} N·m about "
-        f"ground axes through each element's axle centre on the ground; {agree}"
-    )
-    if st.elastic:
+    sentences = [
+        element_sentence(springs, es)[0].upper() + element_sentence(springs, es)[1:] + "."
+        for es in springs.per_element.values()
+    ]
+    detail = " ".join([*sentences, agree[0].upper() + agree[1:]])
+    if any(st.elastic for st in analysis.statics.values()):
         detail += "; over-constrained: forces from the elastic solution (they depend on EA/L)"
+    pose = "the design pose" if sweep not in analysis.sweeps else f"{_pose(analysis, sweep, b)}"
+    axle = springs.layout.axles[a].name
     return CheckResult(
         "sprung-leakage",
         title,
         status,
-        value,
+        worst.avoidable,
         limit,
         "",
-        f"element '{element}' in {_pose(analysis, sweep, pose_index)}, "
-        f"load case '{st.cases[case_index]}'",
+        f"element '{worst.element}', {axle} axle, in {pose}, load case '{springs.cases[k]}'",
         detail,
     )
 
