@@ -44,12 +44,13 @@ def test_every_figure_has_data_labels_and_a_status(drawn, name):
         "transmission": [("wheel travel, mm (+ bump)", "transmission angle, deg")],
         "reserves": [("", "reserve factor (log")],
         "clearance": [("wheel travel, mm (+ bump)", "least distance, mm")],
+        "spring-share": [("", "spring-load change / element load")],
     }
     for kind, figure in figs.items():
         axes = [ax for ax in figure.axes if ax.axison]
         assert axes and any(ax.lines for ax in axes), kind
         for (xlabel, ylabel), ax in zip(labels[kind], axes, strict=False):
-            assert ax.get_xlabel() == xlabel or (not xlabel and kind == "reserves"), kind
+            assert ax.get_xlabel() == xlabel or not xlabel, kind
             assert ax.get_ylabel().startswith(ylabel), (kind, ax.get_ylabel())
         assert any(word in _titles(figure) for word in ("PASS", "WARN", "FAIL")), kind
         assert figure_bytes(figure, "png")[:8] == b"\x89PNG\r\n\x1a\n"

@@ -15,7 +15,13 @@ from plumbrod.verdict.findings import Findings
 if TYPE_CHECKING:  # pragma: no cover
     from matplotlib.figure import Figure
 
-__all__ = ["CLEARANCE_PAIRS_SHOWN", "clearance_figure", "reserve_factors", "reserve_figure"]
+__all__ = [
+    "CLEARANCE_PAIRS_SHOWN",
+    "clearance_figure",
+    "reserve_factors",
+    "reserve_figure",
+    "spring_share_figure",
+]
 
 RF_SHOWN_MAX = 100.0
 """Reserve factors above this are drawn at the top edge (the axis is logarithmic)."""
@@ -128,4 +134,67 @@ def clearance_figure(findings: Findings) -> Figure:
     ax.set_ylabel("least distance, mm (negative = interference)")
     status_title(ax, "Clearance of the closest pairs", checks)
     ax.grid(True, color="0.9")
+    return figure
+
+
+def spring_share_figure(findings: Findings) -> Figure:
+    """Each axle's spring-load change as a share of each element's vertical load through
+    the wheel travel, one panel per load case: routed (solid) beside bolted (dotted),
+    with the floor statics forces on any route (thin dash-dot) (DESIGN §5a)."""
+    analysis = findings.analysis
+    springs = analysis.springs
+    checks = [c for c in findings.checks if c.id == "sprung-leakage"]
+    sweep = springs.sweeps.get("travel") if springs is not None else None
+    cases = list(springs.cases) if springs is not None and sweep is not None else []
+    figure = new_figure(11.0, 4.0 * max(len(cases), 1) + 0.4)
+    axes = np.atleast_1d(figure.subplots(max(len(cases), 1), 1, sharex=True))
+    if springs is None or sweep is None:
+        axes[0].text(
+            0.5,
+            0.5,
+            "no load case or no travel sweep: spring loads not computed",
+            ha="center",
+            va="center",
+            transform=axes[0].transAxes,
+        )
+        status_title(axes[0], "Spring-load share", checks)
+        return figure
+    travel = analysis.sweeps["travel"].spec.values["travel_mm"]
+    axles = [axle.name for axle in springs.layout.axles]
+    for k, (ax, case) in enumerate(zip(axes, cases, strict=True)):
+        for e, element in enumerate(springs.elements):
+            load = np.abs(sweep.vertical_load_N[:, k, e])
+            safe = np.where(load > 1e-9, load, np.nan)
+            for a, axle in enumerate(axles):
+                colour = ("#1f77b4", "#d62728", "#2ca02c", "#9467bd")[(2 * e + a) % 4]
+                label = f"{element}, {axle} axle"
+                ax.plot(
+                    travel,
+                    sweep.axle_N[:, k, e, a] / safe,
+                    color=colour,
+                    linewidth=2.0,
+                    label=f"{label}, routed",
+                )
+                ax.plot(
+                    travel,
+                    sweep.axle_bolted_N[:, k, e, a] / safe,
+                    color=colour,
+                    linestyle=":",
+                    linewidth=1.5,
+                    label=f"{label}, bolted",
+                )
+                ax.plot(
+                    travel,
+                    sweep.axle_floor_N[:, k, e, a] / safe,
+                    color=colour,
+                    linestyle="-.",
+                    linewidth=0.9,
+                    label=f"{label}, floor (any route)",
+                )
+        ax.axhline(0.0, color="0.6", linewidth=0.8)
+        ax.set_ylabel("spring-load change / element load\n(+ = springs more compressed)")
+        status_title(ax, f"Spring-load share, load case '{case}'", checks)
+        ax.grid(True, color="0.9")
+        ax.legend(fontsize="x-small", loc="upper left", bbox_to_anchor=(1.01, 1.0))
+    axes[-1].set_xlabel(TRAVEL_LABEL)
     return figure

@@ -62,6 +62,9 @@ _FIGURE_CAPTIONS = {
     "with the required reserves.",
     "clearance": "Least distance of the closest pairs through the travel, with their "
     "limits (negative = interference).",
+    "spring-share": "Spring-load change of each axle as a share of the element's load "
+    "through the travel: routed beside bolted, with the floor that statics forces on any "
+    "route landing on the same axles.",
 }
 
 

@@ -11,7 +11,9 @@ One idea per figure, each title led by its check's PASS / WARN / FAIL:
 * ``<stem>-reserves``: every rod's reserve factor through the travel per load case, with
   the required reserves;
 * ``<stem>-clearance``: least distance of the closest pairs through the travel, with
-  their limits.
+  their limits;
+* ``<stem>-spring-share``: each axle's spring-load change as a share of each element's
+  load through the travel per load case, routed beside bolted, with the floor.
 
 Left and right members share a colour; the right one is dashed.
 """
@@ -36,6 +38,7 @@ FIGURES: tuple[str, ...] = (
     "transmission",
     "reserves",
     "clearance",
+    "spring-share",
 )
 """Figure names in the order reports show them."""
 
@@ -47,7 +50,11 @@ def _builders() -> dict[str, Callable[[Findings], Figure]]:
         route_ratio_figure,
         transmission_figure,
     )
-    from plumbrod.outputs.figures_structure import clearance_figure, reserve_figure
+    from plumbrod.outputs.figures_structure import (
+        clearance_figure,
+        reserve_figure,
+        spring_share_figure,
+    )
 
     return {
         "route-ratio": route_ratio_figure,
@@ -56,6 +63,7 @@ def _builders() -> dict[str, Callable[[Findings], Figure]]:
         "transmission": transmission_figure,
         "reserves": reserve_figure,
         "clearance": clearance_figure,
+        "spring-share": spring_share_figure,
     }
 
 
