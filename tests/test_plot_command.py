@@ -32,7 +32,10 @@ def test_plot_writes_readable_pngs_and_svgs(tmp_path: Path, example: str) -> Non
         text=True,
         check=False,
     )
-    assert done.returncode == 0, done.stderr
+    # exit 1 exactly when the verdict line says FAIL (the figures are written both ways)
+    last = done.stdout.strip().splitlines()[-1]
+    assert last.startswith("verdict: "), done.stderr
+    assert done.returncode == (1 if last.startswith("verdict: FAIL") else 0), done.stderr
     for kind in FIGURES:
         path = tmp_path / f"{example}-{kind}.png"
         assert path.read_bytes()[:8] == PNG_SIGNATURE
