@@ -87,7 +87,9 @@ def test_demo_writes_report_table_and_figures(tmp_path: Path) -> None:
         *(f"{stem}-{kind}.png" for kind in FIGURES),
         *(f"{stem}-{kind}.svg" for kind in FIGURES),
     } <= names
-    assert "verdict: PASS" in done.stdout
+    # the bundled splitter passes every check but element-attitude, which warns: on the
+    # front axle only it pitches with the body, as it would bolted (DESIGN §5a)
+    assert "verdict: WARN (10 pass, 1 warn, 0 fail)" in done.stdout
     # the bundled example is the file in examples/, byte for byte
     assert (tmp_path / f"{stem}.toml").read_bytes() == (
         ROOT / "examples" / f"{stem}.toml"

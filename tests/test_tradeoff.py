@@ -65,9 +65,19 @@ def test_example_front_axle_bookkeeping(study: TradeoffStudy) -> None:
     assert axle.added_unsprung_kg > 0.0
 
 
-def test_example_wheel_rates_meet_the_budget(study: TradeoffStudy) -> None:
+def test_example_uses_the_cars_wheel_rate(study: TradeoffStudy) -> None:
+    bolted = study.axles["front"].cases["bolted"]
+    assert bolted.rate_from == "given" and bolted.wheel_rate_N_per_mm == 60.0  # [car]
+    # Hooke's law, spring and tyre in series: the body sinks S/k_s + S/k_t
+    s = bolted.sprung_load_N
+    assert bolted.ride_height_drop_mm[-1] == pytest.approx((s / 60e3 + s / 250e3) * 1e3)
+    assert any("beyond the 8 mm budget" in note for note in study.notes)
+
+
+def test_example_wheel_rates_meet_the_budget() -> None:
     # Hooke's law, spring and tyre in series: the bolted body sinks S/k_s + S/k_t; the
     # softest rate for a budget B is k_s = S/(B − S/k_t)
+    study = _study(_with("wheel_rate_front_N_per_mm = 60.0\n", ""))
     axle = study.axles["front"]
     bolted, routed = axle.cases["bolted"], axle.cases["routed"]
     b, kt = 8e-3, 250e3
@@ -221,7 +231,7 @@ def test_aero_stiffness_lowers_the_body_frequency_and_can_go_unstable(
         )
     text = _with(
         anchor,
-        f"{anchor}\ndownforce_per_mm = 100.0\nwheel_rate_front_N_per_mm = 60.0",
+        f"{anchor}\ndownforce_per_mm = 100.0",  # on the [car] front rate of 60 N/mm
     )
     path = tmp_path / "unstable.toml"
     path.write_text(text)
@@ -261,3 +271,58 @@ def test_every_example_runs(name: str, tmp_path: Path) -> None:
             < axle["bolted"]["element_height_rms_mm"][-1]
         )
         assert axle["verdict"].startswith("on a class-A road")
+
+
+def test_probabilities_are_the_gaussian_tails(study: TradeoffStudy) -> None:
+    # Gaussian response (linear car, Gaussian road): P(unload) = Φ(−F_static/σ_F) with
+    # F_static = (m_s + m_u)·g + the downforce on the tyre; P(bump stop) = Φ(−(travel to
+    # the stop − static compression)/σ_travel); reference: scipy.stats.norm.sf
+    from scipy import stats
+
+    axle = study.axles["front"]
+    b = axle.cases["bolted"]
+    out = b.classes["B"]
+    f_static = (110.0 + 16.0) * 9.80665 + b.sprung_load_N
+    sigma = out["tyre_load_rms_N"][-1]
+    assert out["unloading_probability"][-1] == pytest.approx(
+        float(stats.norm.sf(f_static / sigma)), rel=1e-9
+    )
+    margin = axle.bump_travel_mm - b.spring_compression_mm[-1]
+    assert axle.bump_travel_mm == 40.0  # the travel sweep's bump end
+    assert out["bump_stop_probability"][-1] == pytest.approx(
+        float(stats.norm.sf(margin / out["travel_rms_mm"][-1])), rel=1e-9
+    )
+
+
+def test_other_ways_to_give_masses_and_damping() -> None:
+    # the car's sprung mass and its front share give the same corner mass; a damper rate
+    # instead of a ratio keeps the damper the same in both cases
+    total = _study(
+        _with(
+            "corner_sprung_mass_front_kg = 110.0   # the front axle's sprung mass per corner\n"
+            "corner_sprung_mass_rear_kg = 135.0",
+            "sprung_mass_kg = 490.0\nsprung_mass_front_share = 0.4489795918367347",
+        )
+    )
+    plain = _study()
+    a, b = total.axles["front"].cases["routed"], plain.axles["front"].cases["routed"]
+    assert a.sprung_mass_kg == pytest.approx(110.0, rel=1e-12)
+    assert a.classes["A"]["tyre_load_rms_N"][-1] == pytest.approx(
+        b.classes["A"]["tyre_load_rms_N"][-1], rel=1e-9
+    )
+    rate = _study(_with("damping_ratio = 0.5", "damper_rate_N_s_per_mm = 2.5\nbump_travel_mm = 30"))
+    cases = rate.axles["front"].cases
+    assert cases["bolted"].damper_N_s_per_mm == cases["routed"].damper_N_s_per_mm == 2.5
+    assert rate.axles["front"].bump_travel_mm == 30.0
+
+
+def test_without_a_wheelbase_the_axle_takes_the_whole_load() -> None:
+    study = _study(_with("wheelbase_mm = 2300.0\n", ""))
+    axle = study.axles["front"]
+    assert axle.load_share == pytest.approx(1.0, rel=1e-12)
+    assert any("give [car] wheelbase_mm" in note for note in study.notes)
+    # the route still delivers the same load to the tyres (its statics needs no wheelbase)
+    plain = _study()
+    assert axle.cases["routed"].unsprung_load_N == pytest.approx(
+        plain.axles["front"].cases["routed"].unsprung_load_N, rel=1e-6
+    )

@@ -20,8 +20,8 @@ Keys (units in the names; per corner means one wheel's share):
   nears the road): the aero stiffness, scaled with the square of the speed;
 * ``bump_travel_mm`` (optional): travel to the bump stop at static ride height; default
   the bump end of the travel sweep;
-* ``wheel_rate_front_N_per_mm`` / ``wheel_rate_rear_N_per_mm`` and ``wheel_base_mm``
-  (optional): the car's wheel rates and wheelbase, until the ``[car]`` table gives them.
+
+The wheel rates and the wheelbase come from ``[car]``.
 
 This module reads the table only; it imports nothing from the loader, so the schema can
 take these keys over unchanged.
@@ -54,9 +54,6 @@ TRADEOFF_KEYS = (
     "target_ride_frequency_Hz",
     "downforce_per_mm",
     "bump_travel_mm",
-    "wheel_rate_front_N_per_mm",
-    "wheel_rate_rear_N_per_mm",
-    "wheelbase_mm",
 )
 
 
@@ -91,8 +88,6 @@ class TradeoffSpec:
     target_ride_frequency_Hz: float | None = None
     downforce_per_mm: float = 0.0
     bump_travel_mm: float | None = None
-    wheel_rate_N_per_mm: dict[str, float] | None = None
-    wheelbase_mm: float | None = None
 
     def corner_sprung_mass(self, axle: str) -> float | None:
         """Sprung mass per corner of an axle (kg), or None when the table lacks it."""
@@ -204,11 +199,6 @@ def read_tradeoff(table: Any, r: _Reader) -> TradeoffSpec | None:
                 "use 500 or fewer",
             )
 
-    wheel = {
-        axle: v
-        for axle in ("front", "rear")
-        if (v := num(f"wheel_rate_{axle}_N_per_mm", positive=True)) is not None
-    }
     return TradeoffSpec(
         tyre_rate_N_per_mm=r.number(
             t["tyre_rate_N_per_mm"], "tradeoff.tyre_rate_N_per_mm", positive=True
@@ -226,6 +216,4 @@ def read_tradeoff(table: Any, r: _Reader) -> TradeoffSpec | None:
         target_ride_frequency_Hz=num("target_ride_frequency_Hz", positive=True),
         downforce_per_mm=num("downforce_per_mm") or 0.0,
         bump_travel_mm=num("bump_travel_mm", positive=True),
-        wheel_rate_N_per_mm=wheel or None,
-        wheelbase_mm=num("wheelbase_mm", positive=True),
     )

@@ -8,24 +8,31 @@
   wheels on the ground, and the same for the element bolted to the chassis.
 * Line of action: each route rod's angle from the ground vertical.
 * Transmission angles at rod ends on hinged bodies (:mod:`plumbrod.kinematics.transmission`).
+* Attitude of each element relative to the ground (DESIGN §5a): the pitch of its
+  fore-aft line (+ nose down) and the roll of its left-right line (+ left side up) from
+  the design attitude, in every sweep, beside the same element bolted to the chassis.
+  For a wing, whose air flows along the ground, the pitch change is the change of its
+  angle of attack (+ = leading edge down: more downforce for a downforce wing).
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 from numpy.typing import NDArray
 
-from plumbrod.kinematics.drives import chassis_motion
+from plumbrod.kinematics.drives import TravelDrive, chassis_motion
 from plumbrod.kinematics.linkage import Kinematics, Linkage
 from plumbrod.kinematics.routes import RouteMap
 from plumbrod.kinematics.sweeps import SweepResult
 from plumbrod.kinematics.transmission import joint_labels, transmission_angles
 
 __all__ = [
+    "Attitude",
     "RideHeight",
     "SweepFigures",
+    "element_attitudes",
     "ground_frame",
     "line_of_action",
     "ride_heights",
@@ -51,6 +58,18 @@ class RideHeight:
 
 
 @dataclass(frozen=True)
+class Attitude:
+    """One element's attitude relative to the ground through a sweep (deg, from the
+    design attitude): pitch + nose down, roll + left side up; bolted beside it."""
+
+    element: str
+    pitch_deg: Array  # (B,)
+    roll_deg: Array  # (B,)
+    bolted_pitch_deg: Array  # (B,)
+    bolted_roll_deg: Array  # (B,)
+
+
+@dataclass(frozen=True)
 class SweepFigures:
     """Every kinematic figure of one sweep."""
 
@@ -62,16 +81,17 @@ class SweepFigures:
     transmission_deg: Array  # (B, n)
     rod_tilt_deg: Array  # (B, n)
     ride_height: dict[str, RideHeight]  # body sweeps only
+    attitude: dict[str, Attitude] = field(default_factory=dict)
 
 
 def ground_frame(result: SweepResult) -> tuple[Array, Array, Array, Array]:
     """The chassis pose in the ground frame at every pose, and its derivatives."""
     drive = result.spec.drive
     n = result.spec.size
-    if result.spec.is_travel:
+    if isinstance(drive, TravelDrive):  # the spec's is_travel
         eye = np.broadcast_to(np.eye(3), (n, 3, 3)).copy()
         return eye, np.zeros((n, 3)), np.zeros((n, 3, 3, 3)), np.zeros((n, 3, 3))
-    return chassis_motion(drive.parameters, np.array(drive.centre_mm))  # type: ignore[union-attr]
+    return chassis_motion(drive.parameters, np.array(drive.centre_mm))
 
 
 def route_ratios(link: Linkage, routes: RouteMap, result: SweepResult) -> dict[str, Array]:
@@ -134,6 +154,27 @@ def ride_heights(link: Linkage, result: SweepResult) -> dict[str, RideHeight]:
     return out
 
 
+def _pitch_roll(r: Array) -> tuple[Array, Array]:
+    """Pitch (+ nose down) of the turned x axis and roll (+ left up) of the turned y
+    axis against the ground plane, deg, for rotations (B, 3, 3) in the ground frame."""
+    pitch = np.degrees(np.arctan2(-r[:, 2, 0], np.hypot(r[:, 0, 0], r[:, 1, 0])))
+    roll = np.degrees(np.arctan2(r[:, 2, 1], np.hypot(r[:, 0, 1], r[:, 1, 1])))
+    return pitch, roll
+
+
+def element_attitudes(link: Linkage, result: SweepResult) -> dict[str, Attitude]:
+    """Pitch and roll of each element against the ground through a sweep, and bolted."""
+    rot = ground_frame(result)[0]
+    kin = result.solved.kin
+    bolted = _pitch_roll(rot)
+    out: dict[str, Attitude] = {}
+    for element in link.design.elements:
+        turned = rot @ kin.rotation[:, link.body(element.name)]
+        pitch, roll = _pitch_roll(turned)
+        out[element.name] = Attitude(element.name, pitch, roll, bolted[0], bolted[1])
+    return out
+
+
 def sweep_figures(link: Linkage, routes: RouteMap, result: SweepResult) -> SweepFigures:
     """All kinematic figures of one solved sweep."""
     kin = result.solved.kin
@@ -162,4 +203,5 @@ def sweep_figures(link: Linkage, routes: RouteMap, result: SweepResult) -> Sweep
         transmission_deg=mu,
         rod_tilt_deg=tilt,
         ride_height=heights,
+        attitude=element_attitudes(link, result),
     )

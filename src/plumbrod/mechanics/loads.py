@@ -19,7 +19,7 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from plumbrod.design.model import PLANE_NORMAL_AXIS, Design, Element, LoadCase
+from plumbrod.design.model import PLANE_NORMAL_AXIS, Design, Element, LoadCase, Vec3
 from plumbrod.kinematics.linkage import Linkage
 from plumbrod.kinematics.routes import RouteMap
 from plumbrod.mechanics.members import Member
@@ -106,6 +106,12 @@ def _inertia(mass_kg: float, case: LoadCase) -> tuple[float, float, float]:
     return (-w * case.longitudinal_g, -w * case.lateral_g, -w * (1.0 + case.bump_g))
 
 
+def _vec3(point: NDArray[np.float64]) -> Vec3:
+    """A point (3,) as a tuple of floats."""
+    x, y, z = (float(v) for v in point)
+    return (x, y, z)
+
+
 def applied_loads(
     design: Design,
     link: Linkage,
@@ -171,11 +177,11 @@ def applied_loads(
         if not mass:
             continue
         picks = [p.position_mm for p in design.pickups.values() if p.body == rocker.name]
-        centroid = tuple(float(v) for v in np.mean(picks, axis=0)) if picks else rocker.axis_a_mm
+        centroid = _vec3(np.mean(picks, axis=0)) if picks else rocker.axis_a_mm
         add(
             f"{rocker.name} mass",
             rocker.name,
-            centroid,  # type: ignore[arg-type]
+            centroid,
             owner_of_body.get(rocker.name, 0),
             [_inertia(mass, c) for c in cases],
         )

@@ -277,6 +277,20 @@ def sweep_json(analysis: Analysis) -> dict[str, object]:
                 e: {_sens_key(k): _series(v) for k, v in r.bolted_sensitivity.items()}
                 for e, r in fig.ride_height.items()
             }
+        if fig.attitude:
+            kinds = {e.name: e.kind for e in analysis.design.elements}
+            attitude: dict[str, object] = {}
+            for e, att in fig.attitude.items():
+                item = {
+                    "pitch_deg": _series(att.pitch_deg),
+                    "roll_deg": _series(att.roll_deg),
+                    "pitch_bolted_deg": _series(att.bolted_pitch_deg),
+                    "roll_bolted_deg": _series(att.bolted_roll_deg),
+                }
+                if kinds.get(e) == "wing":
+                    item["angle_of_attack_change_deg"] = _series(att.pitch_deg)
+                attitude[e] = item
+            entry["attitude"] = attitude
         out[name] = entry
     return out
 

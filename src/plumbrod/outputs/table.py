@@ -51,6 +51,14 @@ def _columns_of_sweep(analysis: Analysis, name: str) -> dict[str, Array]:
     for element, rh in fig.ride_height.items():
         cols[f"{element}/ride_height_mm"] = rh.height_mm
         cols[f"{element}/ride_height_bolted_mm"] = rh.bolted_height_mm
+    kinds = {e.name: e.kind for e in analysis.design.elements}
+    for element, att in fig.attitude.items():
+        cols[f"{element}/pitch_deg"] = att.pitch_deg
+        cols[f"{element}/roll_deg"] = att.roll_deg
+        cols[f"{element}/pitch_bolted_deg"] = att.bolted_pitch_deg
+        cols[f"{element}/roll_bolted_deg"] = att.bolted_roll_deg
+        if kinds.get(element) == "wing":
+            cols[f"{element}/angle_of_attack_change_deg"] = att.pitch_deg
     for rod, angle in fig.line_of_action_deg.items():
         cols[f"{rod}/line_of_action_deg"] = angle
     for j, (rod, body) in enumerate(fig.transmission_labels):

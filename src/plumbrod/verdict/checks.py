@@ -6,8 +6,8 @@ flagged before it fails), and when it cannot be computed (a sweep it needs is of
 ``ride-height-sensitivity`` also warns when the element's ride height moves more in roll
 or pitch than it would bolted to the chassis.
 Check ids are fixed: ``route-ratio``, ``line-of-action``, ``transmission-angle``,
-``ride-height-sensitivity`` (later: ``member-force``, ``sprung-leakage``, ``buckling``,
-``tension``, ``compliance``, ``clearance``).
+``ride-height-sensitivity``, ``element-attitude``, ``member-force``, ``sprung-leakage``,
+``buckling``, ``tension``, ``compliance``, ``clearance``.
 """
 
 from __future__ import annotations
@@ -291,6 +291,98 @@ def check_ride_height(analysis: Analysis) -> CheckResult:
     )
 
 
+ATTITUDE_AS_BOLTED = 0.05
+"""An element whose worst pitch change is within this share (or 0.01°) of the bolted
+element's, on routes that land on one axle, pitches with the body as physics forces:
+the check then warns instead of failing."""
+BODY_SWEEPS = ("heave", "roll", "pitch", "heave_roll")
+
+
+def _span(values: np.ndarray) -> str:
+    """'-1.00 to +1.00' without negative zeros."""
+    lo, hi = (round(float(v), 2) + 0.0 for v in (values.min(), values.max()))
+    return f"{lo:+.2f} to {hi:+.2f}"
+
+
+def check_element_attitude(analysis: Analysis) -> CheckResult:
+    """Largest pitch change of an element relative to the ground over the body sweeps
+    (DESIGN §5a); the limit is plumbrod's own default (0.5°): choose yours."""
+    limit = analysis.design.limits.element_attitude_deg
+    title = "Element attitude: pitch change relative to the ground through the body sweeps"
+    worst = (-1.0, "", "", 0, 0.0)
+    for sweep in BODY_SWEEPS:
+        fig = analysis.figures.get(sweep)
+        if fig is None:
+            continue
+        for element, att in fig.attitude.items():
+            i = int(np.argmax(np.abs(att.pitch_deg)))
+            if abs(att.pitch_deg[i]) > worst[0]:
+                worst = (float(abs(att.pitch_deg[i])), element, sweep, i, float(att.pitch_deg[i]))
+    if worst[0] < 0:
+        return CheckResult(
+            "element-attitude",
+            title,
+            "warn",
+            None,
+            limit,
+            "deg",
+            "not computed: every body sweep is off",
+            "enable [sweeps.heave], [sweeps.roll] or [sweeps.pitch] to check it",
+        )
+    used, element, sweep, i, value = worst
+    att = analysis.figures[sweep].attitude[element]
+    bolted = float(att.bolted_pitch_deg[i])
+    kinds = {e.name: e.kind for e in analysis.design.elements}
+    details = []
+    for name in kinds:
+        parts = []
+        for sw in (*BODY_SWEEPS, "travel"):
+            fig = analysis.figures.get(sw)
+            if fig is None or name not in fig.attitude:
+                continue
+            a = fig.attitude[name]
+            text = f"in {sw}: pitch {_span(a.pitch_deg)}° (bolted {_span(a.bolted_pitch_deg)}°)"
+            if sw in ("roll", "heave_roll"):
+                text += f", roll {_span(a.roll_deg)}° (bolted {_span(a.bolted_roll_deg)}°)"
+            parts.append(text)
+        label = name
+        if kinds[name] == "wing":
+            label += " (angle of attack change = its pitch, + leading edge down)"
+        details.append(f"{label}: " + ", ".join(parts))
+    status = status_of(used / limit)
+    landed: dict[str, set[str]] = {}
+    springs = analysis.springs
+    for route in analysis.routes.routes:
+        for corner in route.corners:
+            axle = "front"
+            if springs is not None and corner in springs.layout.rear.corners:
+                axle = "rear"
+            landed.setdefault(route.element, set()).add(axle)
+    forced = len(landed.get(element, set())) == 1 and abs(abs(value) - abs(bolted)) <= max(
+        ATTITUDE_AS_BOLTED * abs(bolted), 0.01
+    )
+    note = ""
+    if forced:
+        note = (
+            f"{element} pitches with the body as it would bolted ({bolted:+.2f}°): routes "
+            "to one axle cannot hold its pitch, only routes to both axles can"
+        )
+        if status == "fail":
+            status = "warn"
+    default = analysis.design.limits.element_attitude_deg == 0.5
+    tail = "; the 0.5° limit is plumbrod's own default: choose yours" if default else ""
+    return CheckResult(
+        "element-attitude",
+        title,
+        status,
+        value,
+        limit,
+        "deg",
+        f"element '{element}' in {_pose(analysis, sweep, i)}",
+        "; ".join([*([note] if note else []), *details]) + tail,
+    )
+
+
 def check_member_force(analysis: Analysis) -> CheckResult:
     title = "Member forces (largest tension and compression; rod-end rating)"
     if not analysis.statics:
@@ -563,6 +655,7 @@ def evaluate_checks(
         check_line_of_action(analysis),
         check_transmission(analysis),
         check_ride_height(analysis),
+        check_element_attitude(analysis),
         check_member_force(analysis),
         check_sprung_leakage(analysis),
         check_buckling(analysis, reserves),

@@ -22,6 +22,7 @@ from dataclasses import dataclass, field
 import numpy as np
 from numpy.typing import NDArray
 
+from plumbrod.design.car import car_layout
 from plumbrod.design.model import Design, LoadCase
 from plumbrod.design.tradeoff_spec import TradeoffSpec
 from plumbrod.errors import DesignFileError
@@ -47,6 +48,7 @@ from plumbrod.mechanics.road import (
     class_mean_m3,
     velocity_psd_m2_s,
 )
+from plumbrod.mechanics.springs import spring_loads
 from plumbrod.mechanics.statics import solve_statics
 
 __all__ = ["CASES", "AxleStudy", "CaseStudy", "TradeoffStudy", "axle_groups", "study_tradeoff"]
@@ -133,22 +135,9 @@ class TradeoffStudy:
 
 
 def axle_groups(design: Design) -> dict[str, tuple[str, ...]]:
-    """The design's corners by axle: grouped by wheel-centre x (within 50 mm), the front
-    axle the one with the larger x; one axle is 'rear' when every corner's name says so."""
-    order = sorted(design.corners, key=lambda c: -c.wheel_centre_mm[0])
-    groups: list[list[str]] = []
-    xs: list[float] = []
-    for corner in order:
-        x = corner.wheel_centre_mm[0]
-        if xs and abs(xs[-1] - x) <= AXLE_TOLERANCE_MM:
-            groups[-1].append(corner.name)
-        else:
-            groups.append([corner.name])
-            xs.append(x)
-    if len(groups) == 1:
-        rear = all("rear" in name for name in groups[0])
-        return {"rear" if rear else "front": tuple(groups[0])}
-    return {"front": tuple(groups[0]), "rear": tuple(groups[-1])}
+    """The design's corners by axle (``[car]`` and the corners, as the spring loads see
+    them): only the axles that hold a corner."""
+    return {a.name: a.corners for a in car_layout(design).axles if a.in_design}
 
 
 def _axle_x(design: Design, corners: tuple[str, ...]) -> float:
@@ -169,6 +158,10 @@ class _Aero:
     """What each corner's tyre receives through the routes (N, + = down)."""
     route_ratio: dict[str, float]
     """Each corner's mean route ratio."""
+    axle_N: dict[str, tuple[float, float, float]]
+    """Per axle with corners, per spring: (tyre gain, spring change routed, spring change
+    bolted) in N, + = more load, from the spring loads (DESIGN §5a); empty when a
+    wheelbase is needed and unknown."""
 
 
 def _aero_at_top(analysis: Analysis, top_kmh: float) -> _Aero:
@@ -192,7 +185,23 @@ def _aero_at_top(analysis: Analysis, top_kmh: float) -> _Aero:
     for route in analysis.routes.routes:
         by_corner.setdefault(route.corner, []).append(float(ratios[route.name][0]))
     delivered = {name: float(contact[c]) for c, name in enumerate(link.corner_names)}
-    return _Aero(total, x, drag, delivered, {c: float(np.mean(v)) for c, v in by_corner.items()})
+    springs = spring_loads(link, analysis.routes, analysis.members, loads, {}, {})
+    d = springs.design
+    tyre = d.tyre_gain_N[0, 0] - d.tyre_gain_N[0, 1]  # (S,)
+    routed = (d.spring_N[0, 0] - d.spring_N[0, 1]).sum(axis=0)  # (S,)
+    bolted = (d.spring_bolted_N[0, 0] - d.spring_bolted_N[0, 1]).sum(axis=0)
+    per_axle: dict[str, tuple[float, float, float]] = {}
+    for a, axle in enumerate(springs.layout.axles):
+        idx = [i for i, k in enumerate(springs.spring_axle) if k == a]
+        values = (
+            float(np.mean(tyre[idx])),
+            float(np.mean(routed[idx])),
+            float(np.mean(bolted[idx])),
+        )
+        if axle.in_design and all(math.isfinite(v) for v in values):
+            per_axle[axle.name] = values
+    ratio = {c: float(np.mean(v)) for c, v in by_corner.items()}
+    return _Aero(total, x, drag, delivered, ratio, per_axle)
 
 
 # -- wheel rates -------------------------------------------------------------------
@@ -261,8 +270,8 @@ def study_tradeoff(analysis: Analysis, mass: MassReport) -> TradeoffStudy:
             "add top_speed_kmh under [design]",
         )  # fmt: skip
     aero = _aero_at_top(analysis, top)
-    total_N, delivered, ratio = aero.down_N, aero.delivered_N, aero.route_ratio
-    if total_N <= 0.0:
+    ratio = aero.route_ratio
+    if aero.down_N <= 0.0:
         raise DesignFileError(
             src, f"elements.{design.elements[0].name}.aero",
             "no downforce at top speed: the study needs each element's aero data",
@@ -270,7 +279,7 @@ def study_tradeoff(analysis: Analysis, mass: MassReport) -> TradeoffStudy:
         )  # fmt: skip
     groups = axle_groups(design)
     notes: list[str] = []
-    shares = _lever_shares(design, spec, groups, aero, notes)
+    loads_by_axle = _axle_loads(design, groups, aero, notes)
     speeds = top * np.arange(1, spec.speed_steps + 1) / spec.speed_steps
     axles = {
         axle: _study_axle(
@@ -279,9 +288,7 @@ def study_tradeoff(analysis: Analysis, mass: MassReport) -> TradeoffStudy:
             spec,
             axle,
             corners,
-            shares[axle],
-            total_N,
-            delivered,
+            loads_by_axle[axle],
             speeds,
             ratio,
         )
@@ -309,39 +316,46 @@ def study_tradeoff(analysis: Analysis, mass: MassReport) -> TradeoffStudy:
     )
 
 
-def _lever_shares(
-    design: Design,
-    spec: TradeoffSpec,
-    groups: dict[str, tuple[str, ...]],
-    aero: _Aero,
-    notes: list[str],
-) -> dict[str, float]:
-    """Each axle's share of the vertical load: statics of the car on its two axles, the
-    drag's pitch moment included (moments about the other axle's ground line)."""
+@dataclass(frozen=True)
+class _AxleLoad:
+    """Downforce at top speed per corner of one axle (N, + = down)."""
 
-    def share(x_axle: float, x_other: float) -> float:
-        moment = aero.down_N * (aero.x_mm - x_other) - aero.drag_moment_Nmm
-        return moment / (x_axle - x_other) / aero.down_N
+    share: float
+    """The axle's share of the elements' vertical load."""
+    tyre_N: float
+    spring_routed_N: float
+    spring_bolted_N: float
 
-    if len(groups) == 2:
-        xf, xr = _axle_x(design, groups["front"]), _axle_x(design, groups["rear"])
-        front = share(xf, xr)
-        return {"front": front, "rear": 1.0 - front}
-    (axle, corners), = groups.items()  # fmt: skip
-    if spec.wheelbase_mm is None:
+
+def _axle_loads(
+    design: Design, groups: dict[str, tuple[str, ...]], aero: _Aero, notes: list[str]
+) -> dict[str, _AxleLoad]:
+    """Each axle's tyre and spring loads from the spring loads of DESIGN §5a (statics of
+    the chassis on its two axles, the drag's pitch moment included); without a wheelbase
+    a one-axle design puts the whole load on its axle (and says so)."""
+    layout = car_layout(design)
+    out: dict[str, _AxleLoad] = {}
+    for axle in layout.axles:
+        if not axle.in_design:
+            continue
+        n = len(axle.springs)
+        if axle.name in aero.axle_N:
+            tyre, routed, bolted = aero.axle_N[axle.name]
+        else:
+            tyre = bolted = aero.down_N / n
+            routed = tyre - float(np.mean([aero.delivered_N[c] for c in axle.corners]))
+            notes.append(
+                f"the {axle.name} axle takes the whole load: without the wheelbase the "
+                "pitch couple between the axles is left out (give [car] wheelbase_mm)"
+            )
+        out[axle.name] = _AxleLoad(tyre * n / aero.down_N, tyre, routed, bolted)
+    if len(out) == 1 and layout.wheelbase_mm is not None:
+        other = 1.0 - next(iter(out.values())).share
         notes.append(
-            f"the {axle} axle takes the whole load: without the wheelbase the pitch couple "
-            "between the axles is left out (give wheelbase_mm)"
+            f"the other axle's tyres gain {other:+.0%} of the downforce, through its springs "
+            "the same bolted or routed: its quarter car does not change"
         )
-        return {axle: 1.0}
-    xa = _axle_x(design, corners)
-    other = xa - spec.wheelbase_mm if axle == "front" else xa + spec.wheelbase_mm
-    mine = share(xa, other)
-    notes.append(
-        f"the other axle's springs carry {1.0 - mine:+.0%} of the downforce, the same "
-        "bolted or routed: its quarter car does not change"
-    )
-    return {axle: mine}
+    return out
 
 
 def _study_axle(
@@ -350,9 +364,7 @@ def _study_axle(
     spec: TradeoffSpec,
     axle: str,
     corners: tuple[str, ...],
-    share: float,
-    total_N: float,
-    delivered: dict[str, float],
+    load: _AxleLoad,
     speeds: Array,
     ratio: dict[str, float],
 ) -> AxleStudy:
@@ -381,8 +393,7 @@ def _study_axle(
     added = float(np.mean([by_corner[c].kinetic_single_kg for c in corners]))
     static_added = float(np.mean([by_corner[c].static_share_kg for c in corners]))
     k_t = spec.tyre_rate_N_per_mm * 1e3
-    tyre_N = total_N * share / n
-    route_N = float(np.mean([delivered[c] for c in corners]))
+    share = load.share
     k_aero = spec.downforce_per_mm * 1e3 * share / n
     budget = spec.ride_height_budget_mm * 1e-3
     bump = _bump_travel(design, spec)
@@ -395,8 +406,11 @@ def _study_axle(
             c = 2.0 * spec.damping_ratio * math.sqrt(rate * m_s)
         return QuarterCar(m_s, m_unsprung, rate, c, k_t, k_aero, on)  # type: ignore[arg-type]
 
-    loads = {"bolted": (tyre_N, 0.0), "routed": (tyre_N - route_N, route_N)}
-    given = (spec.wheel_rate_N_per_mm or {}).get(axle)
+    loads = {
+        "bolted": (load.spring_bolted_N, 0.0),
+        "routed": (load.spring_routed_N, load.tyre_N - load.spring_routed_N),
+    }
+    given = {a.name: a.wheel_rate_N_per_mm for a in car_layout(design).axles}.get(axle)
     rates: dict[str, tuple[float, str]] = {}
     for name, m_unsprung, on in (("bolted", m_u, "sprung"), ("routed", m_u + added, "unsprung")):
         need = None
@@ -463,9 +477,9 @@ def _choose_rate(
         if target is not None:
             return target, "target ride frequency"
         raise DesignFileError(
-            src, f"tradeoff.wheel_rate_{axle}_N_per_mm",
+            src, f"car.wheel_rate_{axle}_N_per_mm",
             "missing: the budget does not set the bolted wheel rate (the springs carry no "
-            "aero load)", f"add wheel_rate_{axle}_N_per_mm",
+            "aero load)", f"add wheel_rate_{axle}_N_per_mm under [car]",
         )  # fmt: skip
     if target is not None and (need is None or target >= need):
         return target, "target ride frequency"
@@ -598,12 +612,15 @@ def _sentence(study: AxleStudy, analysis: Analysis, spec: TradeoffSpec, speeds: 
         rate = f"keeps the {study.axle} wheel rate at {kb:.0f} N/mm"
     change = tr / tb - 1.0
     verb = "rises" if change >= 0 else "falls"
+    size = f" {abs(change):.0%}"
+    if round(abs(change) * 100.0) == 0:
+        verb, size = "stays", " the same"
     alone = ""
     if study.tyre_load_rms_mass_only_N is not None and kr != kb:
         alone = f", {study.tyre_load_rms_mass_only_N / tb - 1.0:+.0%} from the mass alone"
     return (
         f"on a class-{cls} road the routed {what} holds its height within ±{hr:.1f} mm "
-        f"against ±{hb:.1f} mm bolted and {rate}; tyre-load variation {verb} "
-        f"{abs(change):.0%} with the {study.added_unsprung_kg:.1f} kg added per corner"
+        f"against ±{hb:.1f} mm bolted and {rate}; tyre-load variation {verb}{size} "
+        f"with the {study.added_unsprung_kg:.1f} kg added per corner"
         f"{alone} (RMS at {speeds[-1]:.0f} km/h)"
     )
