@@ -296,6 +296,7 @@ def test_json_springs_object_and_csv_columns_on_the_splitter() -> None:
 
     path = next(p for p in EXAMPLES if p.stem == "hillclimb_splitter")
     findings = review(parse_design(path.read_text(encoding="utf-8"), str(path)))
+    assert findings.springs is findings.analysis.springs  # for the figures
     doc = json.loads(as_json(findings))
     springs = doc["springs"]
     cases = doc["load_cases"]

@@ -8,8 +8,12 @@ and heave sweep (9 poses) solved, and every figure the targets need (route ratio
 of action, transmission angles, heave sensitivity, statics for the reserves and the
 leakage, rod mass).  Measured in one run, on one core (BLAS threads pinned to 1):
 
-  * batched: ``Screening`` on N candidates at once (designs x poses batch);
-  * one by one: the same ``Screening`` called with one candidate at a time.
+  * batched: ``Screening`` on N candidates at once (designs x poses batch, the
+    suspension solved once per pose, the route block per candidate);
+  * one by one: the same ``Screening`` called with one candidate at a time;
+  * the existing API one by one (the baseline): per candidate, ``solve_poses`` of the
+    same two coarse sweeps, ``sweep_figures`` and ``solve_statics`` (at every pose of
+    the two sweeps, where the screening takes three per sweep).
 
 Times are CPU time of this process (``time.process_time``), so a busy machine does not
 inflate them; wall times are printed beside.  The last line is
@@ -35,6 +39,9 @@ import numpy as np
 from plumbrod.design.loading import load_design
 from plumbrod.design.tune_spec import read_tune
 from plumbrod.kinematics.build import build_linkage
+from plumbrod.kinematics.figures import sweep_figures
+from plumbrod.kinematics.sweeps import run_sweep
+from plumbrod.mechanics.statics import solve_statics
 from plumbrod.revise.candidates import Screening
 
 EXAMPLE = Path(__file__).resolve().parents[2] / "examples" / "tune_splitter.toml"
@@ -70,11 +77,27 @@ def main() -> None:
     single = x[: args.single]
     cpu_1, wall_1 = measure(lambda: [screening(row[None]) for row in single], args.repeats)
 
+    def existing_api() -> None:
+        pts = screening.points(single)
+        for one in pts:
+            link = screening.link.with_points(one[None])
+            for spec_ in (screening.travel, screening.heave):
+                if spec_ is None:
+                    continue
+                result = run_sweep(link, spec_)
+                sweep_figures(link, screening.routes, result)
+                if screening.loads is not None:
+                    solve_statics(
+                        link, screening.routes, screening.members, screening.loads, result
+                    )
+
+    cpu_api, wall_api = measure(existing_api, args.repeats)
     batched = screening(x)
     ones = np.vstack([screening(row[None]).constraints for row in single])
     agree = float(np.abs(batched.constraints[: args.single] - ones).max())
 
     rate_b, rate_1 = args.batch / cpu_b, args.single / cpu_1
+    rate_api = args.single / cpu_api
     print(
         f"tune example: {len(spec.variables)} variables, screening "
         f"{screening.travel.size} travel + {screening.heave.size if screening.heave else 0} "
@@ -88,8 +111,14 @@ def main() -> None:
         f"one by one, {args.single} candidates: {cpu_1:.3f} s CPU ({wall_1:.3f} s wall), "
         f"{rate_1:,.0f} candidates/s"
     )
+    print(
+        f"existing API one by one, {args.single} candidates: {cpu_api:.3f} s CPU "
+        f"({wall_api:.3f} s wall), {rate_api:,.0f} candidates/s"
+    )
     print(f"largest difference of a constraint, batched vs one by one: {agree:.1e}")
     print(f"speedup_vs_one_by_one={rate_b / rate_1:.1f}")
+    print(f"speedup_vs_existing_api={rate_b / rate_api:.1f}")
+    print(f"existing_api_candidates_per_s={rate_api:.0f}")
     print(f"one_by_one_candidates_per_s={rate_1:.0f}")
     print(f"tune_candidates_per_s={rate_b:.0f}")
 

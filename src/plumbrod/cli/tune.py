@@ -21,9 +21,10 @@ def register(subparsers: Any) -> None:
         description=(
             "Move the points the design file's [tune] table frees, within their bounds, "
             "to meet every target (route ratio, line of action, transmission angles, "
-            "ride-height sensitivity, buckling and tension reserves; each defaults to its "
-            "check's limit) while holding the route ratio flat and keeping the weighted "
-            "objectives (rod mass, sprung leakage) low: a global search (differential "
+            "ride-height sensitivity, buckling and tension reserves, the avoidable "
+            "spring-load share; each defaults to its check's limit) while holding the route "
+            "ratio flat and keeping the weighted objectives (rod mass, avoidable spring-load "
+            "share) low: a global search (differential "
             "evolution) then a local polish (SLSQP). The best candidates are checked in "
             "full (clearance included); the best that passes is written to a new design "
             "file (the input is never overwritten; comments kept) with a before/after "
@@ -84,14 +85,12 @@ def _progress_printer(live: bool, plain: bool) -> Any:
 def run(args: argparse.Namespace) -> int:
     import tomllib
 
-    from plumbrod.design.loading import load_design, parse_design
+    from plumbrod.design.loading import load_design
     from plumbrod.design.tune_spec import read_tune
     from plumbrod.errors import UsageError
     from plumbrod.kinematics.build import build_linkage
     from plumbrod.outputs.atomic import write_atomic
-    from plumbrod.revise.candidates import Screening
-    from plumbrod.revise.text_edit import move_points
-    from plumbrod.revise.tuning import tune
+    from plumbrod.revise.tuning import finalise, tune
     from plumbrod.verdict.findings import review
 
     source = Path(args.design)
@@ -116,29 +115,11 @@ def run(args: argparse.Namespace) -> int:
     )
     if live:
         sys.stderr.write("\n")
-    screening = Screening(design, spec, screen_steps=3)
-    file_points = [p for group in spec.groups.values() for p in group]
-    for rocker in spec.pivots.values():
-        file_points += [f"{rocker}.axis_a", f"{rocker}.axis_b"]
-    chosen = None
-    for x in result.finalists:
-        pts = screening.points(x[None])[0]
-        moved = {p: tuple(float(c) for c in pts[screening.link.point(p)]) for p in file_points}
-        try:
-            new_text = move_points(text, design, moved)  # type: ignore[arg-type]
-        except ValueError as exc:
-            raise UsageError(
-                args.design, str(exc), "write each point as a key = [..] line"
-            ) from None
-        after = review(parse_design(new_text, str(target)))
-        if chosen is None or not any(c.status == "fail" for c in after.checks):
-            chosen = (x, new_text, after)
-        if not any(c.status == "fail" for c in after.checks):
-            break
-        if result.interrupted:
-            break
-    assert chosen is not None
-    x, new_text, after = chosen
+    try:
+        final = finalise(text, design, spec, result, str(target))
+    except ValueError as exc:
+        raise UsageError(args.design, str(exc), "write each point as a key = [..] line") from None
+    x, new_text, after = final.x, final.text, final.findings
     write_atomic(target, new_text)
     _table(spec, x, before, after)
     print(
@@ -150,10 +131,12 @@ def run(args: argparse.Namespace) -> int:
     failing = [c.id for c in after.checks if c.status == "fail"]
     if failing:
         print("the tuned design still fails: " + ", ".join(failing) + " (see plumbrod check)")
+    elif not final.passed:
+        print(f"the tuned design's clearance is below the target {spec.targets.clearance_mm:g} mm")
     print(CAUTION)
     if result.interrupted:
         return 130
-    return 1 if failing else 0
+    return 0 if final.passed else 1
 
 
 def _table(spec: Any, x: Any, before: Any, after: Any) -> None:
@@ -165,9 +148,11 @@ def _table(spec: Any, x: Any, before: Any, after: Any) -> None:
     rows = [("check", "before", "", "after", "", "limit")]
     for b, a in zip(before.checks, after.checks, strict=True):
         rows.append((b.id, b.status, _value(b), a.status, _value(a), _limit(a)))
+    for name, span_b, span_a in _ratio_spans(before, after):
+        rows.append((f"route ratio {name}", "", span_b, "", span_a, "min to max"))
     rows.append(
         (
-            "route mass",
+            "mass (rods, rockers, elements)",
             "",
             f"{before.mass.total_kg:.3f} kg",
             "",
@@ -176,6 +161,17 @@ def _table(spec: Any, x: Any, before: Any, after: Any) -> None:
         )
     )
     _print(rows)
+
+
+def _ratio_spans(before: Any, after: Any) -> list[tuple[str, str, str]]:
+    def spans(findings: Any) -> dict[str, str]:
+        travel = findings.analysis.figures.get("travel")
+        if travel is None:
+            return {}
+        return {k: f"{v.min():.4f} to {v.max():.4f}" for k, v in travel.route_ratio.items()}
+
+    b, a = spans(before), spans(after)
+    return [(name, b[name], a.get(name, "-")) for name in b]
 
 
 def _value(check: Any) -> str:

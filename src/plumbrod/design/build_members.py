@@ -5,7 +5,7 @@ from __future__ import annotations
 
 from typing import Any
 
-from plumbrod.design.model import AeroData, Element, Envelope, Rod
+from plumbrod.design.model import AeroData, Element, Envelope, Rod, Strike
 from plumbrod.design.reader import BuildState, as3, join_key, shown
 
 ELEMENT_KINDS = ("wing", "splitter", "undertray", "other")
@@ -36,6 +36,7 @@ def read_elements(s: BuildState, table: Any) -> list[Element]:
                 "aero",
                 "inertia_kg_m2",
                 "envelope",
+                "strike",
             ),
             required=("mass_kg", "cg_mm", "centre_of_pressure_mm", "pickups"),
         )
@@ -72,6 +73,16 @@ def read_elements(s: BuildState, table: Any) -> list[Element]:
                         "moments of inertia cannot be negative",
                     )
             inertia = as3(values)
+        strike = None
+        if "strike" in etable:
+            skey = f"{key}.strike"
+            stable = r.keys(
+                etable["strike"], skey, ("strike_N", "at_mm"), required=("strike_N", "at_mm")
+            )
+            strike = Strike(
+                force_N=r.number(stable["strike_N"], f"{skey}.strike_N", positive=True),
+                at_mm=r.point(stable["at_mm"], f"{skey}.at_mm"),
+            )
         envelope = None
         if "envelope" in etable:
             vkey = f"{key}.envelope"
@@ -113,6 +124,7 @@ def read_elements(s: BuildState, table: Any) -> list[Element]:
                     etable["centre_of_pressure_mm"], f"{key}.centre_of_pressure_mm"
                 ),
                 aero=aero,
+                strike=strike,
             )
         )
         s.add_pickups(name, etable["pickups"], f"{key}.pickups")

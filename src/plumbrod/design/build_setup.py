@@ -42,7 +42,16 @@ def read_sweeps(s: BuildState, table: Any, plane: str | None) -> Sweeps:
         values["pitch_deg"] = None
     if "heave_roll" in table:
         key = "sweeps.heave_roll"
-        sub = r.keys(table["heave_roll"], key, ("steps",), required=("steps",))
+        sub = r.keys(
+            table["heave_roll"],
+            key,
+            ("steps", "range_heave_mm", "range_roll_deg"),
+            required=("steps",),
+        )
+        if "range_heave_mm" in sub:
+            values["heave_roll_heave_mm"] = r.range_(sub["range_heave_mm"], f"{key}.range_heave_mm")
+        if "range_roll_deg" in sub:
+            values["heave_roll_roll_deg"] = r.range_(sub["range_roll_deg"], f"{key}.range_roll_deg")
         steps = sub["steps"]
         if not isinstance(steps, list) or len(steps) != 2:
             r.fail(
@@ -59,11 +68,12 @@ def read_sweeps(s: BuildState, table: Any, plane: str | None) -> Sweeps:
     if "motion_centre_mm" in table:
         values["motion_centre_mm"] = r.point(table["motion_centre_mm"], "sweeps.motion_centre_mm")
     sweeps = Sweeps(**{**defaults.__dict__, **values})
-    if sweeps.heave_roll_steps and (sweeps.heave_mm is None or sweeps.roll_deg is None):
+    if sweeps.heave_roll_steps and (sweeps.grid_heave_mm is None or sweeps.grid_roll_deg is None):
         r.fail(
             "sweeps.heave_roll",
             "the grid needs both the heave and the roll range",
-            "enable [sweeps.heave] and [sweeps.roll]",
+            "enable [sweeps.heave] and [sweeps.roll], or give range_heave_mm and "
+            "range_roll_deg under [sweeps.heave_roll]",
         )
     return sweeps
 
@@ -113,15 +123,35 @@ def read_load_cases(s: BuildState, table: Any, elements: list[Element]) -> list[
                 "lateral_g",
                 "air_density_kg_m3",
                 "forces_N",
+                "at_mm",
             ),
-            required=("speed_kmh",),
         )
         forces = ctable.get("forces_N", {})
         r.keys(forces, f"{key}.forces_N", names)
+        needs_speed = [e.name for e in elements if e.name not in forces and e.aero is not None]
+        if "speed_kmh" not in ctable and needs_speed:
+            r.fail(
+                f"{key}.speed_kmh",
+                "missing key",
+                f"add the speed in km/h for the aero data of '{needs_speed[0]}', "
+                "or give forces_N for every element",
+            )
+        at = ctable.get("at_mm", {})
+        r.keys(at, f"{key}.at_mm", names)
+        for e in at:
+            if e not in forces:
+                r.fail(
+                    f"{key}.at_mm.{e}",
+                    "a point without a force",
+                    f"give forces_N.{e} too, or remove the point (the aero force acts at "
+                    "the centre of pressure)",
+                )
         cases.append(
             LoadCase(
                 name=cname,
-                speed_kmh=r.number(ctable["speed_kmh"], f"{key}.speed_kmh", non_negative=True),
+                speed_kmh=r.number(
+                    ctable.get("speed_kmh", 0.0), f"{key}.speed_kmh", non_negative=True
+                ),
                 bump_g=r.number(ctable.get("bump_g", 0.0), f"{key}.bump_g"),
                 longitudinal_g=r.number(ctable.get("longitudinal_g", 0.0), f"{key}.longitudinal_g"),
                 lateral_g=r.number(ctable.get("lateral_g", 0.0), f"{key}.lateral_g"),
@@ -134,6 +164,7 @@ def read_load_cases(s: BuildState, table: Any, elements: list[Element]) -> list[
                     e: as3(r.numbers(v, f"{key}.forces_N.{e}", 3, "[Fx, Fy, Fz] in N"))
                     for e, v in forces.items()
                 },
+                forces_at_mm={e: r.point(v, f"{key}.at_mm.{e}") for e, v in at.items()},
             )
         )
     return cases

@@ -209,7 +209,7 @@ class LoadCase:
     """One load case: speed for the aero data, or direct forces; accelerations in g."""
 
     name: str
-    speed_kmh: float
+    speed_kmh: float = 0.0
     bump_g: float = 0.0
     longitudinal_g: float = 0.0
     lateral_g: float = 0.0
@@ -218,6 +218,8 @@ class LoadCase:
     forces_at_mm: dict[str, Vec3] = field(default_factory=dict)
     """Where a given force acts (design position on the element), instead of the
     centre of pressure."""
+    strikes: dict[str, tuple[float, Vec3]] = field(default_factory=dict)
+    """Upward ground-strike force (N) and its point on an element, on top of the rest."""
 
 
 @dataclass(frozen=True)
@@ -255,7 +257,9 @@ class Sweeps:
 
     ``travel``: every wheel moves together relative to the body (rebound −, bump +).
     ``heave``/``roll``/``pitch``: the body moves with the wheels on the ground, roll and
-    pitch about axes through ``motion_centre_mm``.  ``heave_roll``: the grid of both.
+    pitch about axes through ``motion_centre_mm`` (by default mid-wheelbase on the
+    ground when the wheelbase is known, else the origin).  ``heave_roll``: the grid of
+    both, over its own ranges when given.
     A range of ``None`` leaves that sweep out.
     """
 
@@ -268,7 +272,21 @@ class Sweeps:
     pitch_deg: tuple[float, float] | None = (-1.5, 1.5)
     pitch_steps: int = 41
     heave_roll_steps: tuple[int, int] | None = None
+    heave_roll_heave_mm: tuple[float, float] | None = None
+    """The grid's own heave range; the heave sweep's when None."""
+    heave_roll_roll_deg: tuple[float, float] | None = None
+    """The grid's own roll range; the roll sweep's when None."""
     motion_centre_mm: Vec3 = (0.0, 0.0, 0.0)
+
+    @property
+    def grid_heave_mm(self) -> tuple[float, float] | None:
+        """The heave range of the heave-roll grid."""
+        return self.heave_roll_heave_mm or self.heave_mm
+
+    @property
+    def grid_roll_deg(self) -> tuple[float, float] | None:
+        """The roll range of the heave-roll grid."""
+        return self.heave_roll_roll_deg or self.roll_deg
 
 
 @dataclass(frozen=True)

@@ -46,6 +46,7 @@ _TARGET_KEYS = (
     "buckling_reserve",
     "tension_reserve",
     "clearance_mm",
+    "sprung_leakage",
 )
 _WEIGHT_KEYS = ("route_ratio", "mass", "leakage")
 _AXES = ("x", "y", "z")
@@ -79,6 +80,8 @@ class TuneTargets:
     buckling_reserve: float
     tension_reserve: float
     clearance_mm: float
+    sprung_leakage: float
+    """Avoidable spring-load change, as a share of the element's vertical load."""
 
 
 @dataclass(frozen=True)
@@ -306,6 +309,7 @@ def _targets(design: Design, raw: Any) -> TuneTargets:
         buckling_reserve=num("buckling_reserve", lim.buckling_reserve),
         tension_reserve=num("tension_reserve", lim.tension_reserve),
         clearance_mm=num("clearance_mm", lim.clearance_mm),
+        sprung_leakage=num("sprung_leakage", lim.sprung_leakage),
     )
 
 

@@ -64,7 +64,12 @@ class Kinematics:
         (B, r, s, 6) is ``[f, p x f]`` for a gradient ``f`` at a point ``p`` of it.
         """
         n, rows, sides = wrench.shape[0], wrench.shape[1], wrench.shape[2]
-        per = (wrench.reshape(n, rows * sides, 6) @ self.columns).reshape(n, rows, sides, -1)
+        flat = wrench.reshape(n, rows * sides, 6)
+        if link.points.shape[0] > 1:  # a design batch: einsum's planned product is faster
+            per = np.einsum("nrk,nkq->nrq", flat, self.columns, optimize=True)
+        else:
+            per = flat @ self.columns
+        per = per.reshape(n, rows, sides, -1)
         mask = link.float_ancestors[bodies]
         out = per[:, :, 0] * mask[:, 0]
         for side in range(1, sides):
@@ -264,6 +269,16 @@ class Linkage:
         self._cache["levels"] = levels
         return levels
 
+    def _points_by_body(self) -> list[tuple[int, NDArray[np.intp]]]:
+        """(body, its point indices) for every body that holds points."""
+        if "points_by_body" not in self._cache:
+            self._cache["points_by_body"] = [
+                (b, np.flatnonzero(self.point_body == b))
+                for b in range(self.n_bodies)
+                if np.any(self.point_body == b)
+            ]
+        return self._cache["points_by_body"]  # type: ignore[return-value]
+
     def _homogeneous_points(self) -> tuple[Array, NDArray[np.intp], NDArray[np.intp]]:
         """Points as homogeneous columns (G, 4, np) and the gather indices of their body."""
         if "homogeneous" not in self._cache:
@@ -357,6 +372,14 @@ class Linkage:
                 trans[:, bodies] = trans[:, par] + u_w * pose.joint[:, jnt, None]
                 if twists:
                     col[:, 0:3, jnt] = np.swapaxes(u_w, 1, 2)
+        if self.points.shape[0] > 1:  # a design batch: each body's points by its pose
+            pts = np.empty((n, self.points.shape[1], 3))
+            for b, own in self._points_by_body():
+                pts[:, own] = (
+                    np.einsum("npj,nij->npi", self.points[:, own], rot[:, b], optimize=True)
+                    + trans[:, b, None]
+                )
+            return Kinematics(rot, trans, pts, col)
         cols, rows, which = self._homogeneous_points()
         every = affine.reshape(n, 3 * nb, 4) @ cols  # each body's transform on each point
         pts = every[:, rows, which]

@@ -90,9 +90,10 @@ def sweep_specs(link: Linkage, sweeps: Sweeps) -> list[SweepSpec]:
         params[:, column] = v if column == 0 else np.radians(v)
         unit = "mm" if column == 0 else "deg"
         specs.append(SweepSpec(name, BodyDrive(params, centre), {f"{name}_{unit}": v}))
-    if sweeps.heave_roll_steps is not None and sweeps.heave_mm and sweeps.roll_deg:
-        h = np.linspace(*sweeps.heave_mm, sweeps.heave_roll_steps[0])
-        r = np.linspace(*sweeps.roll_deg, sweeps.heave_roll_steps[1])
+    grid_h, grid_r = sweeps.grid_heave_mm, sweeps.grid_roll_deg
+    if sweeps.heave_roll_steps is not None and grid_h and grid_r:
+        h = np.linspace(*grid_h, sweeps.heave_roll_steps[0])
+        r = np.linspace(*grid_r, sweeps.heave_roll_steps[1])
         hh, rr = np.meshgrid(h, r, indexing="ij")
         params = np.zeros((hh.size, 3))
         params[:, 0] = hh.ravel()

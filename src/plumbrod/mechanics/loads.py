@@ -49,17 +49,46 @@ def dynamic_pressure_Pa(speed_kmh: float, density_kg_m3: float = SEA_LEVEL_DENSI
 
 
 def design_load_cases(design: Design) -> tuple[LoadCase, ...]:
-    """The design's load cases, or the two defaults at ``top_speed_kmh``."""
+    """The design's load cases, or the two defaults at ``top_speed_kmh``; then one
+    ground-strike case per element that names a strike."""
+    cases: tuple[LoadCase, ...] = ()
     if design.load_cases:
-        return design.load_cases
-    if design.top_speed_kmh is None:
-        return ()
-    return (
-        LoadCase("top-speed", design.top_speed_kmh),
-        LoadCase(
-            f"top-speed-bump-{DEFAULT_BUMP_G:g}g", design.top_speed_kmh, bump_g=DEFAULT_BUMP_G
-        ),
-    )
+        cases = design.load_cases
+    elif design.top_speed_kmh is not None:
+        cases = (
+            LoadCase("top-speed", design.top_speed_kmh),
+            LoadCase(
+                f"top-speed-bump-{DEFAULT_BUMP_G:g}g", design.top_speed_kmh, bump_g=DEFAULT_BUMP_G
+            ),
+        )
+    return cases + strike_cases(design, cases)
+
+
+def strike_cases(design: Design, cases: tuple[LoadCase, ...]) -> tuple[LoadCase, ...]:
+    """A ground strike on an element: the strike force straight up at its point, on top
+    of the aero loads at the highest speed of the other cases and the weights (1 g).
+    The strike force is the design's own figure (common practice: confirm it)."""
+    out = []
+    speed = max((c.speed_kmh for c in cases), default=design.top_speed_kmh or 0.0)
+    for element in design.elements:
+        if element.strike is None:
+            continue
+        forces: dict[str, tuple[float, float, float]] = {}
+        for other in design.elements:
+            if other.aero is None:
+                given = next(
+                    (c.forces_N[other.name] for c in cases if other.name in c.forces_N), None
+                )
+                forces[other.name] = given or (0.0, 0.0, 0.0)
+        out.append(
+            LoadCase(
+                f"{element.name}-ground-strike",
+                speed,
+                forces_N=forces,
+                strikes={element.name: (element.strike.force_N, element.strike.at_mm)},
+            )
+        )
+    return tuple(out)
 
 
 def aero_force_N(element: Element, case: LoadCase) -> tuple[float, float, float]:
@@ -163,8 +192,28 @@ def applied_loads(
             element.name,
             element.centre_of_pressure_mm,
             e,
-            [aero_force_N(element, c) for c in cases],
+            [
+                (0.0, 0.0, 0.0) if element.name in c.forces_at_mm else aero_force_N(element, c)
+                for c in cases
+            ],
         )
+        for k, case in enumerate(cases):
+            zero = [(0.0, 0.0, 0.0)] * len(cases)
+            if element.name in case.forces_at_mm:
+                per_case = list(zero)
+                per_case[k] = case.forces_N[element.name]
+                add(
+                    f"{element.name} force in '{case.name}'",
+                    element.name,
+                    case.forces_at_mm[element.name],
+                    e,
+                    per_case,
+                )
+            if element.name in case.strikes:
+                lift, point = case.strikes[element.name]
+                per_case = list(zero)
+                per_case[k] = (0.0, 0.0, lift)
+                add(f"{element.name} strike in '{case.name}'", element.name, point, e, per_case)
         add(
             f"{element.name} mass",
             element.name,

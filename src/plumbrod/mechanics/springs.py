@@ -67,6 +67,8 @@ DESIGN_POSE = "design"
 NOMINAL_WHEELBASE_MM = 1000.0
 """Used only in a front-view design, where no pitch moment exists and L drops out."""
 _TINY_N = 1e-9
+_OWN_LOADS = ("aero", "mass", "force in ", "strike in ")
+"""Labels of an element's own loads, which it keeps bolted (route parts' masses go)."""
 
 
 @dataclass(frozen=True)
@@ -291,9 +293,9 @@ def _sweep_springs(
     own = np.zeros((loads.size, n_el))
     owner = np.eye(n_el)[loads.owner]
     for e, element in enumerate(design.elements):
-        for label in (f"{element.name} aero", f"{element.name} mass"):
-            if label in loads.labels:
-                own[loads.labels.index(label), e] = 1.0
+        for i, label in enumerate(loads.labels):
+            if label.startswith(tuple(f"{element.name} {w}" for w in _OWN_LOADS)):
+                own[i, e] = 1.0
     fb = np.einsum("bkli,le->bkei", force, own)
     mb = np.einsum("bkli,le->bkei", cross(lb[:, None], force), own)
     axle_b, spring_b = distribute(fb, mb, layout)

@@ -14,6 +14,7 @@ from collections.abc import Sequence
 import numpy as np
 from numpy.typing import NDArray
 
+from plumbrod.kinematics.reach import wheels_beyond_travel
 from plumbrod.mechanics.analysis import Analysis
 from plumbrod.mechanics.members import Member
 from plumbrod.outputs.cautions import CAUTION
@@ -63,6 +64,11 @@ def _value_text(check: CheckResult) -> str:
         return "-"
     unit = f" {check.unit}" if check.unit and check.unit != "mm/mm" else ""
     return f"{check.value:.4g}{unit}"
+
+
+def sweep_warnings(analysis: Analysis) -> list[str]:
+    """Body-sweep poses that drive a wheel beyond the travel sweep's range."""
+    return wheels_beyond_travel(analysis.link, analysis.sweeps, analysis.design.sweeps.travel_mm)
 
 
 def location_summary(analysis: Analysis) -> dict[str, object]:
@@ -184,6 +190,8 @@ def as_text(findings: Findings) -> str:
         parts.append(f"{name} {res.spec.size}")
         worst = max(worst, float(res.solved.residual_max_mm.max(initial=0.0)))
     lines.append(f"poses solved: {', '.join(parts)}; largest residual {worst:.1e} mm")
+    for note in sweep_warnings(analysis):
+        lines.append(f"warning: {note}")
     if analysis.loads is not None:
         lines.append(f"load cases: {', '.join(analysis.loads.cases)}")
         for note in analysis.loads.left_out:
@@ -394,6 +402,7 @@ def as_json(findings: Findings, *, indent: int | None = 1) -> str:
             }
         },
         "springs": springs_json(analysis),
+        "sweep_warnings": sweep_warnings(analysis),
         "sweeps": sweep_json(analysis),
         "caution": CAUTION,
     }

@@ -7,10 +7,11 @@ when the design sweeps heave, a coarse heave sweep; see
 
 * constraints ``c <= 0`` (each figure over its target, as a fraction: route ratio
   band, line of action, transmission angles, ride-height sensitivity to heave, buckling
-  and tension reserves at the statics poses);
+  and tension reserves and the avoidable spring-load share (the sprung-leakage check's
+  figure, :mod:`plumbrod.mechanics.springs`) at the statics poses);
 * an objective: ``w_ratio * mean(((R - target) / half band)^2)`` over routes and travel
   poses (the ratio held flat at the target), ``+ w_mass * rod mass / rod mass at the
-  start`` and ``+ w_leak * largest sprung-leakage share / its limit``.
+  start`` and ``+ w_leak * largest avoidable spring-load share / its target``.
 
 Screening is approximate where noted (loads act at their design points, statics at a
 few poses, no clearance); the final candidates are checked in full by
@@ -25,19 +26,22 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
+from plumbrod.design.car import car_layout
 from plumbrod.design.model import Design
 from plumbrod.design.tune_spec import TuneSpec
 from plumbrod.kinematics.design_grid import GridSolution, solve_grid
 from plumbrod.kinematics.drives import BodyDrive, TravelDrive
 from plumbrod.kinematics.figures import ride_heights, sweep_figures
 from plumbrod.kinematics.linkage import Linkage
+from plumbrod.kinematics.reduced import reduce_linkage, solve_grid_reduced
 from plumbrod.kinematics.solver import Solved
 from plumbrod.kinematics.sweeps import SweepResult, SweepSpec
 from plumbrod.mechanics.analysis import locate
 from plumbrod.mechanics.columns import critical_load_N
 from plumbrod.mechanics.loads import applied_loads, design_load_cases
 from plumbrod.mechanics.members import resolve_members
-from plumbrod.mechanics.statics import solve_statics
+from plumbrod.mechanics.springs import _element_axles, _sweep_springs
+from plumbrod.mechanics.statics import reference_points, solve_statics
 
 __all__ = ["CONSTRAINTS", "INFEASIBLE", "Screen", "Screening"]
 
@@ -51,6 +55,7 @@ CONSTRAINTS = (
     "ride-height-sensitivity",
     "buckling",
     "tension",
+    "sprung-leakage",
 )
 HEAVE_STEPS = 9
 
@@ -64,7 +69,7 @@ class Screen:
     assembled: NDArray[np.bool_]  # (S,)
     route_ratio: Array  # (S, routes, P) travel poses
     mass_kg: Array  # (S,) design rods
-    leakage: Array  # (S,) largest share of the vertical load
+    leakage: Array  # (S,) largest avoidable spring-load change, share of the vertical load
 
     @property
     def violation(self) -> Array:
@@ -84,6 +89,9 @@ class Screening:
         self.members = resolve_members(design)
         cases = design_load_cases(design)
         self.loads = applied_loads(design, link, self.members, routes, cases) if cases else None
+        self.layout = car_layout(design)
+        self.landed = _element_axles(design, routes, self.layout)
+        self.refs = reference_points(link, routes)
         self.base = link.points[0].copy()
         n = len(spec.variables)
         self.move = np.zeros((n, *self.base.shape))
@@ -119,6 +127,9 @@ class Screening:
         self.density = np.array([m.density_kg_m3 for m in mats])
         self.fixity = np.array([r.end_fixity for r in design.rods])
         self.mass0 = float(self._mass(self.base[None])[0])
+        moved = np.flatnonzero(np.abs(self.move).sum(axis=(0, 2)) > 0)
+        self.reduction = reduce_linkage(link, moved)
+        """The suspension solved once per pose when the variables leave it alone."""
         self.evaluations = 0
 
     # -- geometry ------------------------------------------------------------------
@@ -146,9 +157,9 @@ class Screening:
         ratio_out = np.full((s, nr, self.travel.size), np.nan)
         if s == 0:
             return Screen(objective, cons, np.zeros(0, bool), ratio_out, np.zeros(0), leak)
-        travel = solve_grid(self.link, pts, self.travel.drive)
+        travel = self._grid(pts, self.travel)
         ok = travel.assembled.copy()
-        heave = solve_grid(self.link, pts, self.heave.drive) if self.heave else None
+        heave = self._grid(pts, self.heave) if self.heave else None
         if heave is not None:
             ok &= heave.assembled
         mass = self._mass(pts)
@@ -192,16 +203,17 @@ class Screening:
         c_buck = np.full(k, -1.0)
         c_tens = np.full(k, -1.0)
         leak_k = np.zeros(k)
+        c_leak = np.full(k, -1.0)
         if self.loads is not None:
             c_buck, c_tens, leak_k, c_loa = self._statics(parts, pts[idx], k, c_loa)
+            c_leak = leak_k / t.sprung_leakage - 1.0
         w = self.spec.weights
-        limit_leak = self.design.limits.sprung_leakage
         obj = (
             w["route_ratio"] * flat
             + w["mass"] * mass[idx] / self.mass0
-            + w["leakage"] * leak_k / limit_leak
+            + w["leakage"] * leak_k / t.sprung_leakage
         )
-        cons[idx] = np.stack((c_ratio, c_loa, c_mu, c_sens, c_buck, c_tens), axis=1)
+        cons[idx] = np.stack((c_ratio, c_loa, c_mu, c_sens, c_buck, c_tens, c_leak), axis=1)
         bad = ~np.all(np.isfinite(cons[idx]), axis=1) | ~np.isfinite(obj)
         cons[idx[bad]] = INFEASIBLE
         obj[bad] = INFEASIBLE
@@ -209,6 +221,11 @@ class Screening:
         leak[idx] = leak_k
         ok[idx[bad]] = False
         return Screen(objective, cons, ok, ratio_out, mass, leak)
+
+    def _grid(self, pts: Array, spec: SweepSpec) -> GridSolution:
+        if self.reduction is not None:
+            return solve_grid_reduced(self.reduction, pts, spec.drive)
+        return solve_grid(self.link, pts, spec.drive)
 
     def _statics(
         self, parts: list[_Part], pts: Array, k: int, c_loa: Array
@@ -225,13 +242,17 @@ class Screening:
             p = part.spec.size
             pick = np.unique([0, p // 2, p - 1])
             rows = (np.arange(k)[:, None] * p + pick[None, :]).ravel()
-            sub = _subset_rows(part, rows, part.spec, pick, k)
+            sub = _subset_rows(part, rows, part.spec)
             st = solve_statics(sub.link, self.routes, self.members, self.loads, sub.result)
             f = st.rod_force_N[..., self.rods].reshape(k, -1, len(self.rods))
             worst_c = np.minimum(worst_c, f.min(axis=1))
             worst_t = np.maximum(worst_t, f.max(axis=1))
-            load = st.vertical_load_N
-            share = np.abs(st.leakage[..., 0]) / np.where(np.abs(load) > 1e-9, np.abs(load), np.inf)
+            springs = _sweep_springs(
+                sub.link, self.loads, self.layout, self.landed, self.refs, sub.result, st
+            )
+            load = np.abs(st.vertical_load_N)[..., None]
+            share = np.abs(springs.avoidable_N) / np.where(load > 1e-9, load, np.inf)
+            share = np.where(np.isfinite(share), share, 0.0)
             leak = np.maximum(leak, share.reshape(k, -1).max(axis=1))
             for force in st.corner_force_N.values():
                 size = np.linalg.norm(force, axis=-1)
@@ -292,9 +313,7 @@ def _result(spec: SweepSpec, grid: GridSolution) -> _Part:
     return _Part(spec, grid.link, SweepResult(big, solved, grid.tangent))
 
 
-def _subset_rows(
-    part: _Part, rows: NDArray[np.intp], spec: SweepSpec, pick: NDArray[np.intp], k: int
-) -> _Part:
+def _subset_rows(part: _Part, rows: NDArray[np.intp], spec: SweepSpec) -> _Part:
     res = part.result
     drive = spec.drive.with_parameters(res.spec.drive.parameters[rows])
     values = {key: v[rows] for key, v in res.spec.values.items()}
@@ -306,7 +325,6 @@ def _subset_rows(
         kin.rotation[rows], kin.translation[rows], kin.points[rows], kin.columns[rows]
     )
     sub = Solved(solved.pose.take(rows), sub_kin, solved.residual[rows], solved.jacobian[rows], 0)
-    del pick, k
     return _Part(
         spec,
         part.link.with_points(part.link.points[rows]),

@@ -26,8 +26,9 @@ from numpy.typing import NDArray
 from plumbrod.design.model import Design
 from plumbrod.design.tune_spec import TuneSpec
 from plumbrod.revise.candidates import Screen, Screening
+from plumbrod.verdict.findings import Findings
 
-__all__ = ["Progress", "TuneResult", "tune"]
+__all__ = ["Final", "Progress", "TuneResult", "finalise", "tune"]
 
 Array = NDArray[np.float64]
 
@@ -225,3 +226,51 @@ def _polish(ledger: _Ledger, x0: Array, bounds: Array) -> None:
         method="SLSQP",
         options={"maxiter": 60, "ftol": 1e-12},
     )
+
+
+@dataclass(frozen=True)
+class Final:
+    """The finalist written out: its variables, the design text and its full check."""
+
+    x: Array
+    text: str
+    findings: Findings
+    passed: bool
+    """Every check passes (or warns) and the clearance meets the tune's target."""
+
+
+def finalise(text: str, design: Design, spec: TuneSpec, result: TuneResult, source: str) -> Final:
+    """Write each finalist into ``text`` (best first), check it in full and return the
+    first that passes (else the best).  ``source`` names the new file in messages.
+
+    Raises ValueError naming a key that cannot be edited in place.
+    """
+    from plumbrod.design.loading import parse_design
+    from plumbrod.revise.text_edit import move_points
+    from plumbrod.verdict.findings import review
+
+    screening = Screening(design, spec, screen_steps=3)
+    file_points = [p for group in spec.groups.values() for p in group]
+    for rocker in spec.pivots.values():
+        file_points += [f"{rocker}.axis_a", f"{rocker}.axis_b"]
+    best: Final | None = None
+    for x in result.finalists:
+        pts = screening.points(x[None])[0]
+        moved = {p: _vec(pts[screening.link.point(p)]) for p in file_points}
+        new_text = move_points(text, design, moved)
+        findings = review(parse_design(new_text, source))
+        passed = not any(c.status == "fail" for c in findings.checks)
+        clearance = next(c for c in findings.checks if c.id == "clearance")
+        if clearance.value is not None and clearance.value < spec.targets.clearance_mm:
+            passed = False
+        final = Final(x, new_text, findings, passed)
+        if best is None or passed:
+            best = final
+        if passed or result.interrupted:
+            break
+    assert best is not None
+    return best
+
+
+def _vec(p: Array) -> tuple[float, float, float]:
+    return (float(p[0]), float(p[1]), float(p[2]))

@@ -10,6 +10,7 @@ from plumbrod.design.model import Design
 from plumbrod.mechanics.analysis import Analysis, analyse
 from plumbrod.mechanics.compliance import ComplianceReport, compliance_report
 from plumbrod.mechanics.mass import MassReport, mass_report
+from plumbrod.mechanics.springs import SpringLoads
 from plumbrod.mechanics.structure import RodReserve, rod_reserves
 from plumbrod.verdict.checks import CheckResult, evaluate_checks
 
@@ -24,6 +25,12 @@ class Findings:
     mass: MassReport
     compliance: ComplianceReport
     clearance: ClearanceReport
+
+    @property
+    def springs(self) -> SpringLoads | None:
+        """Spring-load changes per axle and corner, the bolted comparison, the floor and
+        each element's shares (DESIGN §5a); None without a load case."""
+        return self.analysis.springs
 
     def clearance_margin_mm(self, rod: str) -> float:
         """How much a rod's radius may grow before a clearance limit is reached (mm)."""
