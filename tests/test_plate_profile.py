@@ -75,10 +75,15 @@ def test_single_and_contained_circles():
         circle_hull([[0.0, 0.0]], [0.0])
 
 
+_MM = st.floats(-200, 200).map(lambda v: round(v, 6))
+
+
 @settings(max_examples=40, deadline=None)
 @given(
     st.lists(
-        st.tuples(st.floats(-200, 200), st.floats(-200, 200), st.floats(1.0, 60.0)),
+        # centres to 1 µm: shapely's densified Hausdorff distance divides by zero for
+        # centres 1e-240 mm apart (a warning, an error here), far below any drawing
+        st.tuples(_MM, _MM, st.floats(1.0, 60.0)),
         min_size=1,
         max_size=7,
     )

@@ -19,6 +19,7 @@ COMMAND_MODULES: tuple[str, ...] = (
     "report",
     "tradeoff",
     "new",
+    "schema",
     "demo",
 )
 """Verbs in the order ``--help`` lists them; a module missing here is not offered."""

@@ -118,7 +118,31 @@ def _number(option: str, text: str | None, *, positive: bool = True) -> float | 
         raise UsageError(option, f"expected a finite number, got {text!r}")
     if positive and value <= 0.0:
         raise UsageError(option, f"expected a positive number, got {text}")
+    _in_range(option, value, text)
     return value
+
+
+def _in_range(option: str, value: float, text: str) -> None:
+    """The option's sanity range: the design-file key it stands for, or its own."""
+    from plumbrod.design.reader import in_range, range_fix, range_text
+    from plumbrod.design.schema import Key, entry
+
+    ranges = {
+        "--od": entry("rods.*.od_mm"),
+        "--wall": entry("rods.*.wall_mm"),
+        "--length": Key("column.length", "number", "length between joint centres", unit="mm",
+                        minimum=1.0, maximum=200_000.0),
+        "--modulus": entry("materials.*.modulus_MPa"),
+        "--yield": entry("materials.*.yield_MPa"),
+        "--k": entry("rods.*.end_fixity"),
+        "--load": entry("load_cases.*.forces_N.*"),
+        "--rod-end-rating": entry("rods.*.rod_end_rating_N"),
+        "--required": Key("column.required", "number", "required reserve factor",
+                          minimum=0.0, maximum=1000.0, open_minimum=True),
+    }  # fmt: skip
+    spec = ranges.get(option)
+    if spec is not None and not in_range(value, spec):
+        raise UsageError(option, f"expected {range_text(spec)}, got {text}", range_fix(spec))
 
 
 def _list_materials(as_json: bool) -> int:

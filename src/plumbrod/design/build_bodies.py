@@ -14,23 +14,11 @@ from plumbrod.design.model import (
     Wishbones,
 )
 from plumbrod.design.reader import BuildState, join_key, shown, sub, type_name
-
-_WISHBONE_KEYS_3D = (
-    "upper_front_mm",
-    "upper_rear_mm",
-    "upper_outer_mm",
-    "lower_front_mm",
-    "lower_rear_mm",
-    "lower_outer_mm",
-    "tie_rod_inner_mm",
-    "tie_rod_outer_mm",
-)
-_WISHBONE_KEYS_FRONT = ("upper_inner_mm", "upper_outer_mm", "lower_inner_mm", "lower_outer_mm")
-CORNER_BODY_PARTS = {"slider": ("upright",), "double_wishbone": ("upright", "upper", "lower")}
+from plumbrod.design.schema import children, entry
 
 
 def read_chassis(s: BuildState, table: Any) -> None:
-    s.r.keys(table, "chassis", ("pickups",))
+    s.r.table(table, "chassis", "chassis")
     s.add_pickups(CHASSIS, table.get("pickups", {}), "chassis.pickups")
 
 
@@ -47,23 +35,8 @@ def read_corners(s: BuildState, table: Any) -> list[Corner]:
     for cname, ctable in table.items():
         key = join_key("corners", cname)
         r.name(cname, key)
-        r.keys(
-            ctable,
-            key,
-            (
-                "wheel_centre_mm",
-                "tyre_radius_mm",
-                "tyre_width_mm",
-                "suspension",
-                "wishbones",
-                "unsprung_mass_kg",
-                "pickups",
-            ),
-            required=("wheel_centre_mm", "tyre_radius_mm", "tyre_width_mm", "suspension"),
-        )
-        suspension = r.string(
-            ctable["suspension"], f"{key}.suspension", ("slider", "double_wishbone")
-        )
+        r.table(ctable, key, "corners.*")
+        suspension = r.value(ctable, key, "corners.*.suspension")
         wishbones = None
         if suspension == "double_wishbone":
             if "wishbones" not in ctable:
@@ -85,25 +58,17 @@ def read_corners(s: BuildState, table: Any) -> list[Corner]:
                 "a side-view planar design cannot hold wishbones",
                 'use suspension = "slider", or plane = "front"',
             )
-        unsprung = None
-        if "unsprung_mass_kg" in ctable:
-            unsprung = r.number(
-                ctable["unsprung_mass_kg"], f"{key}.unsprung_mass_kg", non_negative=True
-            )
         corner = Corner(
             name=cname,
-            wheel_centre_mm=r.point(ctable["wheel_centre_mm"], f"{key}.wheel_centre_mm"),
-            tyre_radius_mm=r.number(
-                ctable["tyre_radius_mm"], f"{key}.tyre_radius_mm", positive=True
-            ),
-            tyre_width_mm=r.number(ctable["tyre_width_mm"], f"{key}.tyre_width_mm", positive=True),
-            suspension=suspension,  # type: ignore[arg-type]
+            wheel_centre_mm=r.value(ctable, key, "corners.*.wheel_centre_mm"),
+            tyre_radius_mm=r.value(ctable, key, "corners.*.tyre_radius_mm"),
+            tyre_width_mm=r.value(ctable, key, "corners.*.tyre_width_mm"),
+            suspension=suspension,
             wishbones=wishbones,
-            unsprung_mass_kg=unsprung,
+            unsprung_mass_kg=r.value(ctable, key, "corners.*.unsprung_mass_kg"),
         )
         pickups = ctable.get("pickups", {})
-        parts = CORNER_BODY_PARTS[suspension]
-        r.keys(pickups, f"{key}.pickups", parts)
+        r.table(pickups, f"{key}.pickups", "corners.*.pickups", suspension)
         for part, ptable in pickups.items():
             s.add_pickups(f"{cname}.{part}", ptable, f"{key}.pickups.{part}")
         corners.append(corner)
@@ -112,9 +77,12 @@ def read_corners(s: BuildState, table: Any) -> list[Corner]:
 
 def _wishbones(s: BuildState, table: Any, key: str) -> Wishbones:
     r = s.r
+    r.table(table, key, "corners.*.wishbones")
+    p = {
+        k.name: r.read(table[k.name], f"{key}.{k.name}", k)
+        for k in children("corners.*.wishbones", frozenset((r.plane_tag,)))
+    }
     if r.plane == "front":
-        r.keys(table, key, _WISHBONE_KEYS_FRONT, required=_WISHBONE_KEYS_FRONT)
-        p = {k: r.point(table[k], f"{key}.{k}") for k in _WISHBONE_KEYS_FRONT}
         ahead = (1.0, 0.0, 0.0)  # the planar pivot axis runs along x
         return Wishbones(
             upper_front_mm=p["upper_inner_mm"],
@@ -126,29 +94,21 @@ def _wishbones(s: BuildState, table: Any, key: str) -> Wishbones:
             tie_rod_inner_mm=None,
             tie_rod_outer_mm=None,
         )
-    r.keys(table, key, _WISHBONE_KEYS_3D, required=_WISHBONE_KEYS_3D)
-    p = {k: r.point(table[k], f"{key}.{k}") for k in _WISHBONE_KEYS_3D}
     return Wishbones(**p)
 
 
 # -- rockers ------------------------------------------------------------------
 def read_rockers(s: BuildState, table: Any, corners: list[Corner]) -> list[Rocker]:
     r = s.r
-    r.keys(table, "rockers", tuple(table) if isinstance(table, dict) else ())
+    r.named(table, "rockers")
     rockers = []
     for name, rtable in table.items():
         key = join_key("rockers", name)
         r.name(name, key)
-        axis_key = "pivot_mm" if r.plane else "axis_mm"
-        r.keys(
-            rtable,
-            key,
-            ("parent", axis_key, "pickups", "mass_kg", "plate"),
-            required=("parent", axis_key, "pickups"),
-        )
-        parent = r.string(rtable["parent"], f"{key}.parent")
+        r.table(rtable, key, "rockers.*")
+        parent = r.value(rtable, key, "rockers.*.parent")
         if r.plane:
-            pivot = r.point(rtable["pivot_mm"], f"{key}.pivot_mm")
+            pivot = r.value(rtable, key, "rockers.*.pivot_mm")
             normal = [0.0, 0.0, 0.0]
             normal[PLANE_NORMAL_AXIS[r.plane]] = 1.0
             axis_a, axis_b = sub(pivot, tuple(normal)), pivot  # type: ignore[arg-type]
@@ -160,11 +120,10 @@ def read_rockers(s: BuildState, table: Any, corners: list[Corner]) -> list[Rocke
                     f"expected two points on the pivot axis, got {type_name(axis)} {shown(axis)}",
                     "write [[x, y, z], [x, y, z]]",
                 )
-            axis_a = r.point(axis[0], f"{key}.axis_mm[0]")
-            axis_b = r.point(axis[1], f"{key}.axis_mm[1]")
-        mass = None
-        if "mass_kg" in rtable:
-            mass = r.number(rtable["mass_kg"], f"{key}.mass_kg", non_negative=True)
+            spec = entry("rockers.*.axis_mm")
+            axis_a = r.point(axis[0], f"{key}.axis_mm[0]", spec)
+            axis_b = r.point(axis[1], f"{key}.axis_mm[1]", spec)
+        mass = r.value(rtable, key, "rockers.*.mass_kg")
         plate = None
         if "plate" in rtable:
             plate = _plate(s, rtable["plate"], f"{key}.plate")
@@ -175,23 +134,15 @@ def read_rockers(s: BuildState, table: Any, corners: list[Corner]) -> list[Rocke
 
 def _plate(s: BuildState, table: Any, key: str) -> PlateSpec:
     r = s.r
-    r.keys(
-        table,
-        key,
-        ("thickness_mm", "material", "pivot_hole_mm", "hole_mm", "holes_mm", "edge_margin_mm"),
-        required=("thickness_mm", "material"),
-    )
-    holes = table.get("holes_mm", {})
-    r.keys(holes, f"{key}.holes_mm", tuple(holes) if isinstance(holes, dict) else ())
+    r.table(table, key, "rockers.*.plate")
+    holes = r.named(table.get("holes_mm", {}), f"{key}.holes_mm")
+    hole = entry("rockers.*.plate.holes_mm.*")
+    path = "rockers.*.plate"
     return PlateSpec(
-        thickness_mm=r.number(table["thickness_mm"], f"{key}.thickness_mm", positive=True),
-        material=r.string(table["material"], f"{key}.material"),
-        pivot_hole_mm=r.number(
-            table.get("pivot_hole_mm", 10.0), f"{key}.pivot_hole_mm", positive=True
-        ),
-        hole_mm=r.number(table.get("hole_mm", 8.0), f"{key}.hole_mm", positive=True),
-        edge_margin_mm=r.number(
-            table.get("edge_margin_mm", 6.0), f"{key}.edge_margin_mm", positive=True
-        ),
-        holes_mm={k: r.number(v, f"{key}.holes_mm.{k}", positive=True) for k, v in holes.items()},
+        thickness_mm=r.value(table, key, f"{path}.thickness_mm"),
+        material=r.material(r.value(table, key, f"{path}.material"), f"{key}.material"),
+        pivot_hole_mm=r.value(table, key, f"{path}.pivot_hole_mm"),
+        hole_mm=r.value(table, key, f"{path}.hole_mm"),
+        edge_margin_mm=r.value(table, key, f"{path}.edge_margin_mm"),
+        holes_mm={k: r.number(v, f"{key}.holes_mm.{k}", spec=hole) for k, v in holes.items()},
     )

@@ -3,7 +3,7 @@
 
 from __future__ import annotations
 
-from typing import Any, cast
+from typing import Any
 
 from plumbrod.design.build_bodies import read_chassis, read_corners, read_rockers
 from plumbrod.design.build_members import read_elements, read_rods
@@ -17,49 +17,25 @@ from plumbrod.design.build_setup import (
 from plumbrod.design.car import car_layout, read_car, with_default_motion_centre
 from plumbrod.design.crosscheck import check_geometry, check_references
 from plumbrod.design.mirror import mirrored
-from plumbrod.design.model import Design, Plane
+from plumbrod.design.model import Design
 from plumbrod.design.reader import BuildState
+from plumbrod.design.schema import children
 from plumbrod.design.tradeoff_spec import read_tradeoff
 
-TOP_LEVEL_KEYS = (
-    "design",
-    "chassis",
-    "corners",
-    "rockers",
-    "rods",
-    "elements",
-    "sweeps",
-    "limits",
-    "load_cases",
-    "materials",
-    "zones",
-    "tune",
-    "car",
-    "tradeoff",
-)
+TOP_LEVEL_KEYS = tuple(k.name for k in children(""))
 
 
 def build_design(data: dict[str, Any], source: str) -> Design:
     """The validated design of the parsed tables ``data``; ``source`` names the file."""
     s = BuildState(source)
     r = s.r
-    r.keys(data, "", TOP_LEVEL_KEYS, required=("design", "corners", "elements"))
-    head = r.keys(
-        data["design"],
-        "design",
-        ("name", "note", "plane", "mirror", "top_speed_kmh"),
-        required=("name",),
-    )
-    name = r.string(head["name"], "design.name")
-    note = r.string(head.get("note", ""), "design.note")
-    plane: Plane | None = None
-    if "plane" in head:
-        # string() has checked that the value is one of the choices
-        plane = cast(Plane, r.string(head["plane"], "design.plane", ("front", "side")))
-    mirror = r.boolean(head.get("mirror", False), "design.mirror")
-    top_speed = None
-    if "top_speed_kmh" in head:
-        top_speed = r.number(head["top_speed_kmh"], "design.top_speed_kmh", positive=True)
+    r.table(data, "", "")
+    head = r.table(data["design"], "design", "design")
+    name = r.value(head, "design", "design.name")
+    note = r.value(head, "design", "design.note")
+    plane = r.value(head, "design", "design.plane")
+    mirror = r.value(head, "design", "design.mirror")
+    top_speed = r.value(head, "design", "design.top_speed_kmh")
     if mirror and plane == "side":
         r.fail(
             "design.mirror",

@@ -48,6 +48,15 @@ def load_design(path: str | Path) -> Design:
         raise DesignFileError(
             shown, "", "the file is empty", "write a starter design with `plumbrod new FILE`"
         )
+    encoding = _unicode_signature(raw)
+    if encoding:
+        raise DesignFileError(
+            shown,
+            "",
+            f"the file is saved as {encoding}",
+            "save it as UTF-8 without a byte-order mark (in most editors: Save with "
+            "encoding, UTF-8)",
+        )
     if b"\x00" in raw:
         raise DesignFileError(
             shown,
@@ -65,6 +74,22 @@ def load_design(path: str | Path) -> Design:
             "save the file as UTF-8 text",
         ) from None
     return parse_design(text, shown)
+
+
+def _unicode_signature(raw: bytes) -> str:
+    """The encoding a byte-order mark (or the zero bytes of UTF-16 text) shows, or ""."""
+    if raw.startswith(b"\xef\xbb\xbf"):
+        return "UTF-8 with a byte-order mark"
+    if raw.startswith((b"\xff\xfe\x00\x00", b"\x00\x00\xfe\xff")):
+        return "UTF-32"
+    if raw.startswith((b"\xff\xfe", b"\xfe\xff")):
+        return "UTF-16"
+    head = raw[:200]
+    if len(head) >= 4 and head[1::2].count(0) > len(head) // 4 and 0 not in head[0::2]:
+        return "UTF-16 (little-endian, no byte-order mark)"
+    if len(head) >= 4 and head[0::2].count(0) > len(head) // 4 and 0 not in head[1::2]:
+        return "UTF-16 (big-endian, no byte-order mark)"
+    return ""
 
 
 _TOML_POSITION = re.compile(r"^(?P<what>.*?)\s*\(at line (?P<line>\d+), column (?P<col>\d+)\)")

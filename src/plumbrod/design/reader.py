@@ -12,9 +12,14 @@ from collections.abc import Iterable
 from typing import Any, NoReturn
 
 from plumbrod.design.model import CHASSIS, Pickup, Vec3
+from plumbrod.design.schema import Key, children, entry
 from plumbrod.errors import DesignFileError
 
-NAME_PATTERN = re.compile(r"^[A-Za-z0-9_\-]+$")
+NAME_PATTERN = re.compile(r"\A[A-Za-z0-9_\-]+\Z")
+MAX_NAME_LENGTH = 100
+MATERIAL_ID = re.compile(r"\A[A-Za-z0-9_.+/\- ]{1,100}\Z")
+"""Longest name of a corner, rocker, rod, element, pickup or zone: names become parts
+of file names (``<stem>-plate-<rocker>.dxf``), which stay under 200 bytes."""
 MIN_LENGTH_MM = 1e-6
 """Shorter rods or pivot axes than this count as zero length."""
 
@@ -41,11 +46,20 @@ def shown(value: Any) -> str:
 
 
 class Reader:
-    """Validation helpers bound to one file; every failure raises DesignFileError."""
+    """Validation helpers bound to one file; every failure raises DesignFileError.
+
+    The ``spec`` methods (:meth:`table`, :meth:`value`, :meth:`read`) take the allowed
+    and required keys, defaults and ranges from :mod:`plumbrod.design.schema`.
+    """
 
     def __init__(self, path: str, plane: str | None = None) -> None:
         self.path = path
         self.plane = plane
+
+    @property
+    def plane_tag(self) -> str:
+        """``3d``, ``front`` or ``side``: the tag of the design's plane in the schema."""
+        return self.plane or "3d"
 
     # -- failures -----------------------------------------------------------------
     def fail(self, key: str, problem: str, fix: str = "") -> NoReturn:
@@ -57,6 +71,7 @@ class Reader:
         key: str,
         allowed: Iterable[str],
         required: Iterable[str] = (),
+        hints: dict[str, str] | None = None,
     ) -> dict[str, Any]:
         """Check that ``table`` is a table with only ``allowed`` keys and all ``required``."""
         if not isinstance(table, dict):
@@ -68,17 +83,64 @@ class Reader:
         allowed = tuple(allowed)
         for name in table:
             if name not in allowed:
-                guess = difflib.get_close_matches(name, allowed, n=1, cutoff=0.6)
+                close = difflib.get_close_matches(name, allowed, n=1, cutoff=0.6)
                 hint = (
-                    f"did you mean '{guess[0]}'?"
-                    if guess
+                    f"did you mean '{close[0]}'?"
+                    if close
                     else ("allowed keys: " + ", ".join(allowed))
                 )
                 self.fail(join_key(key, name), "unknown key", hint)
         for name in required:
             if name not in table:
-                self.fail(join_key(key, name), "missing key", REQUIRED_HINTS.get(name, "add it"))
+                self.fail(join_key(key, name), "missing key", (hints or {}).get(name, "add it"))
         return table
+
+    # -- schema-driven --------------------------------------------------------------
+    def table(self, table: Any, key: str, path: str, *tags: str) -> dict[str, Any]:
+        """Check ``table`` (at ``key``) against the schema's keys under ``path``.
+
+        ``tags`` (besides the plane's) select the keys that apply (``when``)."""
+        kids = children(path, frozenset((self.plane_tag, *tags)))
+        return self.keys(
+            table,
+            key,
+            [k.name for k in kids],
+            [k.name for k in kids if k.required],
+            {k.name: k.missing for k in kids},
+        )
+
+    def named(self, table: Any, key: str) -> dict[str, Any]:
+        """A table whose keys the user names (``[rockers]``, ``holes_mm``): only a table."""
+        return self.keys(table, key, tuple(table) if isinstance(table, dict) else ())
+
+    def value(self, table: dict[str, Any], key: str, path: str) -> Any:
+        """The value of the schema key ``path`` in ``table`` (at ``key``), checked; its
+        default (``None`` without one) when absent."""
+        spec = entry(path)
+        if spec.name not in table:
+            return spec.default
+        return self.read(table[spec.name], f"{key}.{spec.name}", spec)
+
+    def read(self, value: Any, key: str, spec: Key) -> Any:
+        """Check one value against its schema entry and return it as the model wants it."""
+        kind = spec.kind
+        if kind == "string":
+            return self.string(value, key, spec.choices or None)
+        if kind == "boolean":
+            return self.boolean(value, key)
+        if kind == "number":
+            return self.number(value, key, spec=spec)
+        if kind == "integer":
+            return self.integer(value, key, spec=spec)
+        if kind == "point":
+            return self.point(value, key, spec)
+        if kind == "zone_point":
+            return self.zone_point(value, key, spec)
+        if kind == "range":
+            return self.range_(value, key, spec)
+        if kind == "vector3":
+            return as3(self.numbers(value, key, 3, spec.shape, spec))
+        raise TypeError(f"{spec.path}: kind {kind!r} is read by its section reader")
 
     # -- scalars ------------------------------------------------------------------
     def number(
@@ -88,6 +150,7 @@ class Reader:
         *,
         positive: bool = False,
         non_negative: bool = False,
+        spec: Key | None = None,
     ) -> float:
         if isinstance(value, bool) or not isinstance(value, int | float):
             self.fail(
@@ -95,18 +158,31 @@ class Reader:
                 f"expected a number, got {type_name(value)} {shown(value)}",
                 "write a plain number such as 12.5",
             )
-        number = float(value)
-        if not math.isfinite(number):
+        if isinstance(value, float) and not math.isfinite(value):
             self.fail(
                 key, f"expected a finite number, got {value}", "replace inf/nan with a real value"
             )
-        if positive and number <= 0.0:
-            self.fail(key, f"expected a positive number, got {value}", "use a value above 0")
-        if non_negative and number < 0.0:
-            self.fail(key, f"expected zero or more, got {value}", "use a value of 0 or more")
-        return number
+        if spec is not None and spec.minimum is not None:
+            positive = positive or spec.minimum > 0 or spec.open_minimum
+            non_negative = non_negative or spec.minimum == 0
+        low = spec.too_low if spec is not None and spec.too_low else ()
+        if positive and value <= 0:
+            problem, fix = low or ("expected a positive number, got {value}", "use a value above 0")
+            self.fail(key, problem.format(value=value), fix)
+        if non_negative and value < 0:
+            problem, fix = low or ("expected zero or more, got {value}", "use a value of 0 or more")
+            self.fail(key, problem.format(value=value), fix)
+        if spec is not None and not in_range(value, spec):
+            self.fail(
+                key,
+                f"expected {range_text(spec)}, got {number_text(value)}",
+                range_fix(spec),
+            )
+        return float(value)
 
-    def integer(self, value: Any, key: str, *, minimum: int = 1) -> int:
+    def integer(self, value: Any, key: str, *, minimum: int = 1, spec: Key | None = None) -> int:
+        if spec is not None and spec.minimum is not None:
+            minimum = int(spec.minimum)
         if isinstance(value, bool) or not isinstance(value, int):
             self.fail(
                 key,
@@ -116,8 +192,14 @@ class Reader:
         if value < minimum:
             self.fail(
                 key,
-                f"expected at least {minimum}, got {value}",
+                f"expected at least {minimum}, got {number_text(value)}",
                 f"use a whole number of at least {minimum}",
+            )
+        if spec is not None and spec.maximum is not None and value > spec.maximum:
+            self.fail(
+                key,
+                f"expected at most {int(spec.maximum)}, got {number_text(value)}",
+                f"use a whole number from {minimum} to {int(spec.maximum)}",
             )
         return int(value)
 
@@ -131,10 +213,10 @@ class Reader:
         if choices is not None:
             choices = tuple(choices)
             if value not in choices:
-                guess = difflib.get_close_matches(value, choices, n=1, cutoff=0.5)
+                close = difflib.get_close_matches(value, choices, n=1, cutoff=0.5)
                 hint = (
-                    f"did you mean '{guess[0]}'?"
-                    if guess
+                    f"did you mean '{close[0]}'?"
+                    if close
                     else ("use one of: " + ", ".join(f"'{c}'" for c in choices))
                 )
                 self.fail(key, f"'{value}' is not allowed", hint)
@@ -153,15 +235,36 @@ class Reader:
         if not NAME_PATTERN.match(value):
             self.fail(
                 key,
-                f"the name '{value}' has characters other than letters, digits, '_' and '-'",
+                f"the name {shown(value)} has characters other than letters, digits, '_' and '-'"
+                if value
+                else "the name is empty",
                 "rename it (dots separate a body from its pickup)",
+            )
+        if len(value) > MAX_NAME_LENGTH:
+            self.fail(
+                key,
+                f"the name has {len(value)} characters, more than {MAX_NAME_LENGTH}",
+                f"use a shorter name: names become parts of file names "
+                f"(at most {MAX_NAME_LENGTH} characters)",
             )
         if value == CHASSIS:
             self.fail(key, "'chassis' is the reference body's name", "choose another name")
         return value
 
+    def material(self, value: str, key: str) -> str:
+        """A material id: printable text without quotes or backslashes."""
+        if not MATERIAL_ID.match(value):
+            self.fail(
+                key,
+                f"the material id {shown(value)} has a quote, backslash or control character",
+                "use letters, digits, spaces and - _ . + / only",
+            )
+        return value
+
     # -- vectors ------------------------------------------------------------------
-    def numbers(self, value: Any, key: str, count: int, what: str) -> tuple[float, ...]:
+    def numbers(
+        self, value: Any, key: str, count: int, what: str, spec: Key | None = None
+    ) -> tuple[float, ...]:
         if not isinstance(value, list) or len(value) != count:
             got = (
                 f"{len(value)} values"
@@ -171,29 +274,82 @@ class Reader:
             self.fail(
                 key, f"expected {what}, got {got}", f"write {count} numbers in square brackets"
             )
-        return tuple(self.number(v, f"{key}[{i}]") for i, v in enumerate(value))
+        return tuple(self.number(v, f"{key}[{i}]", spec=spec) for i, v in enumerate(value))
 
-    def point(self, value: Any, key: str) -> Vec3:
+    def point(self, value: Any, key: str, spec: Key | None = None) -> Vec3:
         """A point in mm: [x, y, z], or two coordinates in a planar design's view."""
+        spec = spec or POINT
         if self.plane is None:
-            x, y, z = self.numbers(value, key, 3, "a point [x, y, z] in mm")
+            x, y, z = self.numbers(value, key, 3, "a point [x, y, z] in mm", spec)
             return (x, y, z)
         view = "[y, z]" if self.plane == "front" else "[x, z]"
-        a, b = self.numbers(value, key, 2, f"a point {view} in mm (planar {self.plane} view)")
+        a, b = self.numbers(value, key, 2, f"a point {view} in mm (planar {self.plane} view)", spec)
         return lift(a, b, self.plane)
 
-    def zone_point(self, value: Any, key: str) -> Vec3:
+    def zone_point(self, value: Any, key: str, spec: Key | None = None) -> Vec3:
         """A zone's point: always [x, y, z]; a planar design also takes its view's two."""
+        spec = spec or POINT
         if self.plane is not None and isinstance(value, list) and len(value) == 2:
-            return self.point(value, key)
-        x, y, z = self.numbers(value, key, 3, "a point [x, y, z] in mm")
+            return self.point(value, key, spec)
+        x, y, z = self.numbers(value, key, 3, "a point [x, y, z] in mm", spec)
         return (x, y, z)
 
-    def range_(self, value: Any, key: str) -> tuple[float, float]:
-        lo, hi = self.numbers(value, key, 2, "a range [from, to]")
+    def range_(self, value: Any, key: str, spec: Key | None = None) -> tuple[float, float]:
+        lo, hi = self.numbers(value, key, 2, "a range [from, to]", spec)
         if not lo < hi:
             self.fail(key, f"expected from < to, got [{lo}, {hi}]", "put the smaller value first")
         return (lo, hi)
+
+
+POINT = entry("chassis.pickups.*")
+"""The schema entry of a plain point (its range applies to every point)."""
+
+
+def in_range(value: float, spec: Key) -> bool:
+    """Whether ``value`` lies within the entry's bounds (ints compared exactly)."""
+    if spec.minimum is not None:
+        if value < spec.minimum or (spec.open_minimum and value <= spec.minimum):
+            return False
+    return spec.maximum is None or value <= spec.maximum
+
+
+def _num(x: float) -> str:
+    return f"{x:,.0f}".replace(",", " ") if x == int(x) and abs(x) >= 10_000 else f"{x:g}"
+
+
+def range_text(spec: Key) -> str:
+    """The allowed range in words, with the unit: ``more than 0 and at most 500 km/h``."""
+    unit = f" {spec.unit}" if spec.unit else ""
+    lo, hi = spec.minimum, spec.maximum
+    if lo is None and hi is None:
+        return "a number"
+    if lo is None:
+        return f"at most {_num(hi)}{unit}"  # type: ignore[arg-type]
+    if hi is None:
+        return f"more than {_num(lo)}{unit}" if spec.open_minimum else f"at least {_num(lo)}{unit}"
+    if spec.open_minimum:
+        return f"more than {_num(lo)} and at most {_num(hi)}{unit}"
+    return f"{_num(lo)} to {_num(hi)}{unit}"
+
+
+def range_fix(spec: Key) -> str:
+    """How to fix a value out of its range."""
+    if spec.unit == "mm" and spec.kind in ("point", "zone_point", "axis", "outline"):
+        return "use a coordinate within that range (points are in mm from the origin)"
+    return (
+        f"use a value within that range (unit: {spec.unit})"
+        if spec.unit
+        else ("use a value within that range")
+    )
+
+
+def number_text(value: float) -> str:
+    """A number for a message; a huge integer by its digit count."""
+    if isinstance(value, int) and abs(value) >= 10**15:
+        return f"a {len(str(abs(value)))}-digit number"
+    if isinstance(value, float) and abs(value) >= 1e6:
+        return f"{value:g}"
+    return f"{value}"
 
 
 def lift(a: float, b: float, plane: str) -> Vec3:
@@ -209,29 +365,9 @@ def join_key(key: str, name: str) -> str:
     return f"{key}.{name}" if NAME_PATTERN.match(name) else f'{key}."{name}"'
 
 
-REQUIRED_HINTS = {
-    "name": 'add name = "..." under [design]',
-    "wheel_centre_mm": "add the wheel centre at static ride height, [x, y, z] in mm",
-    "tyre_radius_mm": "add the loaded tyre radius in mm",
-    "tyre_width_mm": "add the tyre width in mm",
-    "suspension": 'add suspension = "slider" or "double_wishbone"',
-    "parent": 'add parent = "chassis" (or a corner body such as "front_left.lower")',
-    "ends": 'add ends = ["body.pickup", "body.pickup"]',
-    "material": 'add material = "4130-N" (see plumbrod column --list-materials)',
-    "od_mm": "add the outside diameter in mm",
-    "mass_kg": "add the mass in kg",
-    "cg_mm": "add the centre of gravity [x, y, z] in mm",
-    "centre_of_pressure_mm": "add the centre of pressure [x, y, z] in mm",
-    "corners": "add at least one [corners.<name>] table",
-    "elements": "add at least one [elements.<name>] table",
-    "design": 'add a [design] table with name = "..."',
-    "speed_kmh": "add the speed in km/h",
-}
-
-
 def guess(name: str, candidates: Iterable[str], fallback: str) -> str:
-    guess = difflib.get_close_matches(name, list(candidates), n=1, cutoff=0.6)
-    return f"did you mean '{guess[0]}'?" if guess else fallback
+    close = difflib.get_close_matches(name, list(candidates), n=1, cutoff=0.6)
+    return f"did you mean '{close[0]}'?" if close else fallback
 
 
 def as3(values: tuple[float, ...]) -> Vec3:
@@ -274,5 +410,5 @@ class BuildState:
                     f"pickup '{full}' is defined twice (also at {self.pickup_where[full]})",
                     "rename one of them",
                 )
-            self.pickups[full] = Pickup(body, pname, r.point(value, pkey))
+            self.pickups[full] = Pickup(body, pname, r.point(value, pkey, POINT))
             self.pickup_where[full] = pkey

@@ -169,6 +169,7 @@ def as_text(findings: Findings) -> str:
     d = analysis.design
     m = analysis.mobility
     lines = [f"plumbrod check: {d.name}", f"file: {d.source}"]
+    lines += [f"plausibility warning: {note}" for note in findings.plausibility]
     if d.plane:
         lines.append(f"planar design in the {d.plane} view")
     if m.exact:
@@ -345,6 +346,7 @@ def as_json(findings: Findings, *, indent: int | None = 1) -> str:
             "elements": [e.name for e in d.elements],
             "rods": [r.name for r in d.rods],
             "rockers": [r.name for r in d.rockers],
+            "plausibility": list(findings.plausibility),
         },
         "verdict": verdict(checks),
         "checks": [c.as_json() for c in checks],

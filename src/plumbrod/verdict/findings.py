@@ -7,6 +7,7 @@ from dataclasses import dataclass
 
 from plumbrod.clearance.survey import ClearanceReport, clearance_report
 from plumbrod.design.model import Design
+from plumbrod.design.plausibility import unit_slips
 from plumbrod.mechanics.analysis import Analysis, analyse
 from plumbrod.mechanics.compliance import ComplianceReport, compliance_report
 from plumbrod.mechanics.mass import MassReport, mass_report
@@ -19,12 +20,23 @@ __all__ = ["Findings", "review"]
 
 @dataclass(frozen=True)
 class Findings:
+    """What every output is built from: the analysis (sweeps as numpy arrays), the
+    checks, member reserves, masses, compliance, clearance and plausibility notes."""
+
     analysis: Analysis
     checks: list[CheckResult]
     reserves: dict[str, RodReserve]
     mass: MassReport
     compliance: ComplianceReport
     clearance: ClearanceReport
+    plausibility: tuple[str, ...] = ()
+    """Values that read like a unit slip (:func:`plumbrod.design.plausibility.unit_slips`)."""
+
+    @property
+    def verdict(self) -> str:
+        """``fail`` if any check fails, else ``warn`` if any warns, else ``pass``."""
+        statuses = {c.status for c in self.checks}
+        return "fail" if "fail" in statuses else "warn" if "warn" in statuses else "pass"
 
     @property
     def springs(self) -> SpringLoads | None:
@@ -44,4 +56,12 @@ def review(design: Design) -> Findings:
     compliance = compliance_report(analysis)
     clearance = clearance_report(analysis)
     checks = evaluate_checks(analysis, reserves, compliance, clearance)
-    return Findings(analysis, checks, reserves, mass_report(analysis), compliance, clearance)
+    return Findings(
+        analysis,
+        checks,
+        reserves,
+        mass_report(analysis),
+        compliance,
+        clearance,
+        unit_slips(design),
+    )
