@@ -47,7 +47,7 @@ def test_a_rod_past_its_dead_point_is_named_with_the_travel() -> None:
     assert "dead point" in str(error) and "'lever'" in str(error)
 
 
-def test_the_command_line_exits_1_with_one_line_and_writes_nothing(tmp_path: Path) -> None:
+def test_the_command_line_exits_3_with_one_line_and_writes_nothing(tmp_path: Path) -> None:
     design = tmp_path / "dead.toml"
     design.write_text(_text())
     env = {
@@ -69,7 +69,7 @@ def test_the_command_line_exits_1_with_one_line_and_writes_nothing(tmp_path: Pat
         check=False,
         env=env,
     )
-    assert done.returncode == 1
+    assert done.returncode == 3  # a dead point (cli/main.py EXIT_ASSEMBLY)
     assert done.stdout == ""
     assert done.stderr.count("\n") == 1 and "Traceback" not in done.stderr
     assert "rod 'drive'" in done.stderr and "sweep 'travel'" in done.stderr

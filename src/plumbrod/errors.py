@@ -8,6 +8,7 @@ attributes and build the one-line message from them.
 from __future__ import annotations
 
 __all__ = [
+    "ASSEMBLY_KINDS",
     "AssemblyError",
     "DesignFileError",
     "LocationError",
@@ -15,6 +16,10 @@ __all__ = [
     "PlumbrodError",
     "UsageError",
 ]
+
+
+ASSEMBLY_KINDS = ("dead-point", "cannot-reach", "redundancy-conflict", "branch-change")
+"""The causes a sweep can fail with, in the order of their exit codes 3, 4, 5, 6."""
 
 
 class PlumbrodError(Exception):
@@ -45,14 +50,19 @@ class AssemblyError(PlumbrodError, RuntimeError):
     """The linkage cannot be assembled at some pose (a rod cannot reach, lock-up).
 
     Attributes: ``member`` (name of the member that fails), ``sweep`` (sweep name),
-    ``driver`` (the driver value, with unit, where it fails) and ``detail``.
+    ``driver`` (the driver value, with unit, where it fails), ``detail`` and ``kind``,
+    the cause: one of :data:`ASSEMBLY_KINDS` (``dead-point``, ``cannot-reach``,
+    ``redundancy-conflict``, ``branch-change``).
     """
 
-    def __init__(self, member: str, sweep: str, driver: str, detail: str) -> None:
+    def __init__(
+        self, member: str, sweep: str, driver: str, detail: str, kind: str = "cannot-reach"
+    ) -> None:
         self.member = member
         self.sweep = sweep
         self.driver = driver
         self.detail = detail
+        self.kind = kind
         super().__init__(str(self))
 
     def __str__(self) -> str:

@@ -1,7 +1,8 @@
 """Command line: ``plumbrod <verb>``.
 
-Exit codes: 0 when every check passes (warnings allowed), 1 when a check fails or the
-linkage does not assemble, 2 on bad input (design file or command-line values).
+Exit codes: 0 when every check passes (warnings allowed), 1 when a check fails, 2 on bad
+input (design file or command-line values); when a sweep cannot be solved, the cause:
+3 a dead point, 4 a rod that cannot reach, 5 a redundancy conflict, 6 a branch change.
 """
 
 from __future__ import annotations
@@ -14,14 +15,17 @@ from collections.abc import Sequence
 
 from plumbrod import __version__
 from plumbrod.cli import COMMAND_MODULES
-from plumbrod.errors import AssemblyError, PlumbrodError
+from plumbrod.errors import ASSEMBLY_KINDS, AssemblyError, PlumbrodError
 from plumbrod.outputs.cautions import CAUTION
 
-__all__ = ["EXIT_BAD_INPUT", "EXIT_FAIL", "EXIT_OK", "build_parser", "main"]
+__all__ = ["EXIT_ASSEMBLY", "EXIT_BAD_INPUT", "EXIT_FAIL", "EXIT_OK", "build_parser", "main"]
 
 EXIT_OK = 0
 EXIT_FAIL = 1
 EXIT_BAD_INPUT = 2
+EXIT_ASSEMBLY = {kind: 3 + i for i, kind in enumerate(ASSEMBLY_KINDS)}
+"""A sweep that cannot be solved, by cause: 3 dead point, 4 a rod that cannot reach,
+5 redundancy conflict (rods that would have to strain absurdly), 6 branch change."""
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -64,7 +68,7 @@ def main(argv: Sequence[str] | None = None) -> int:
         return EXIT_OK
     except AssemblyError as exc:
         print(f"plumbrod: fail: {exc}", file=sys.stderr)
-        return EXIT_FAIL
+        return EXIT_ASSEMBLY.get(exc.kind, EXIT_FAIL)
     except PlumbrodError as exc:
         print(f"plumbrod: error: {exc}", file=sys.stderr)
         return EXIT_BAD_INPUT

@@ -17,6 +17,7 @@ from plumbrod.design.build_setup import (
 from plumbrod.design.car import car_layout, read_car, with_default_motion_centre
 from plumbrod.design.crosscheck import check_geometry, check_references
 from plumbrod.design.mirror import mirrored
+from plumbrod.design.mirror_checks import check_doubled_rods, check_left_side
 from plumbrod.design.model import Design
 from plumbrod.design.reader import BuildState
 from plumbrod.design.schema import children
@@ -77,9 +78,13 @@ def build_design(data: dict[str, Any], source: str) -> Design:
         motion_centre_given="motion_centre_mm" in data.get("sweeps", {}),
         tradeoff=tradeoff,
     )
+    single = design
     if mirror:
+        check_left_side(design, r, s.pickup_where)
         design = mirrored(design, r, s.pickup_where)
     check_references(s, design, mirror)
+    if mirror:
+        check_doubled_rods(single, design, r)
     check_geometry(s, design, mirror)
     car_layout(design)  # the corners make a two-axle car that agrees with [car]
     return with_default_motion_centre(design)

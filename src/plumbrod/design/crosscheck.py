@@ -39,6 +39,7 @@ def check_references(s: BuildState, design: Design, mirrored: bool) -> None:
     for rocker in design.rockers:
         key = f"rockers.{rocker.name}.parent"
         allowed = [CHASSIS] + [b for c in design.corners for b in c.bodies]
+        allowed += sorted(element_names)
         if rocker.parent not in body_set:
             r.fail(
                 key,
@@ -49,11 +50,11 @@ def check_references(s: BuildState, design: Design, mirrored: bool) -> None:
                     "use chassis or a corner body such as <corner>.lower",
                 ),
             )
-        if rocker.parent in rocker_names | element_names:
+        if rocker.parent in rocker_names:
             r.fail(
                 key,
-                f"'{rocker.parent}' cannot carry a rocker",
-                "mount rockers on the chassis, an upright or a wishbone",
+                f"'{rocker.parent}' is a rocker and cannot carry another rocker",
+                "mount rockers on the chassis, an upright, a wishbone or an element (an equaliser)",
             )
     names = list(design.pickups)
     for rod in design.rods:

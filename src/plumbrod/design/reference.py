@@ -34,12 +34,31 @@ NOTES: dict[str, str] = {
     "rods.*": (
         "A rod whose one end is on an element and the other on the chassis is a "
         "**guide**; a rod from an element to a rocker, wishbone or upright starts a "
-        "**route**. Routes are found by following rods and pivots to a corner."
+        "**route**. Routes are found by following rods and pivots to a corner. A rod may "
+        "also join two elements (then it is neither a route nor a guide)."
+    ),
+    "rockers.*": (
+        "An **equaliser** (whiffletree) is a rocker whose `parent` is an element: it "
+        "pivots on the element and shares the load between its rods by their arm lengths "
+        "(arms a and b carry b/(a+b) and a/(a+b) of it). It counts as part of its "
+        "element: a rod from it to an upright starts that element's route, and its mass "
+        "is carried with the element. It is the usual way to hang a body from four points "
+        "without over-constraining it; see `prototype_undertray_equaliser.toml`."
     ),
     "elements.*": (
-        "The element must be exactly located by its rods: six independent constraints "
-        "in 3D, three in a planar design. `plumbrod check` names the free motion or the "
-        "redundant rods when it is not."
+        "The element must be located by its rods: six independent constraints in 3D, "
+        "three in a planar design; `plumbrod check` names the free motion when it is not. "
+        "**Redundant rods** (more constraints than it needs: a floor on four hangers, one "
+        "guide too many) are solved elastically: every rod that takes part in the "
+        "redundancy is a spring k = EA/L about its design length, each pose has the least "
+        "elastic energy with the other joints rigid, and the **fight forces** (what the "
+        "motion alone does to the rods) are reported per sweep and added to every load "
+        "case (the buckling, tension and rod-end checks see the sum); the report names "
+        "the rods that could be removed, the largest fight force and where, and how far "
+        "the rods would have to change length if they were rigid. Rods that would have "
+        "to strain by more than 1 % are a geometry conflict and stop the sweep (exit 5). "
+        "An exactly located design gives the same results as before; a redundant one "
+        "whose geometry stays compatible has no fight."
     ),
     "sweeps": (
         "`motion_centre_mm` is by default mid-wheelbase on the ground on the centre plane "

@@ -204,7 +204,8 @@ KEYS: tuple[Key, ...] = (
     # -- [rockers.<name>] -------------------------------------------------------------
     _k("rockers.*", "table", "a rigid body turning about an axis fixed in its parent"),
     _k("rockers.*.parent", "string",
-       '"chassis" or a corner body such as "front_left.lower"', required=True,
+       '"chassis", a corner body such as "front_left.lower", or an element (an equaliser)',
+       required=True,
        missing='add parent = "chassis" (or a corner body such as "front_left.lower")'),
     _k("rockers.*.axis_mm", "axis", "two points on the pivot axis", when=("3d",),
        required=True, **_POINT),
@@ -226,7 +227,8 @@ KEYS: tuple[Key, ...] = (
        default=8.0, maximum=500.0, **_POSITIVE),
     _k("rockers.*.plate.holes_mm", "named", "hole diameters by pickup: { <pickup> = <mm> }"),
     _k("rockers.*.plate.edge_margin_mm", "number",
-       "material left around each hole", unit="mm", default=6.0, maximum=500.0,
+       "material left around each hole (at most 100 mm: the plate outline's cost grows "
+       "with it)", unit="mm", default=6.0, maximum=100.0,
        **_POSITIVE),
     _k("rockers.*.plate.holes_mm.*", "number", "this pickup's hole diameter", unit="mm",
        maximum=500.0, **_POSITIVE),

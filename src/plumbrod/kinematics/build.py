@@ -6,7 +6,7 @@ from __future__ import annotations
 import numpy as np
 from numpy.typing import NDArray
 
-from plumbrod.design.model import CHASSIS, Design
+from plumbrod.design.model import CHASSIS, Design, Rocker
 from plumbrod.kinematics.frames import Array
 from plumbrod.kinematics.linkage import FIXED, FREE, HINGE, SLIDE, Linkage
 
@@ -75,17 +75,28 @@ def build_linkage(design: Design) -> Linkage:
             rod_names.append(f"{corner.name}.tie_rod")
             rod_pairs.append((inner, outer))
 
-    for rocker in design.rockers:
+    element_names = {e.name for e in design.elements}
+
+    def add_rocker(rocker: Rocker) -> None:
         a = add_point(rocker.name, "axis_a", rocker.axis_a_mm)
         b = add_point(rocker.name, "axis_b", rocker.axis_b_mm)
         # the axis lies in the parent; the axis points are stored on the rocker, which
         # is fine because they do not move relative to the parent
         add_body(rocker.name, "rocker", HINGE, rocker.parent, (a, b), "")
 
+    for rocker in design.rockers:
+        if rocker.parent not in element_names:
+            add_rocker(rocker)
+
     for element in design.elements:
         ref = add_point(element.name, "centre_of_pressure", element.centre_of_pressure_mm)
         add_point(element.name, "cg", element.cg_mm)
         add_body(element.name, "element", FREE, CHASSIS, ("", ""), ref)
+
+    # equalisers: rockers that pivot on an element come after their parent
+    for rocker in design.rockers:
+        if rocker.parent in element_names:
+            add_rocker(rocker)
 
     for key, pickup in design.pickups.items():
         point_names.append(key)

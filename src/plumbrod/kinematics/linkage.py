@@ -24,6 +24,7 @@ components, the in-plane ones in a planar design), and one driver row per corner
 from __future__ import annotations
 
 from dataclasses import dataclass, field, replace
+from typing import Any
 
 import numpy as np
 from numpy.typing import NDArray
@@ -130,7 +131,8 @@ class Linkage:
     n_joint: int
     n_free: int
     plane: str | None
-    _cache: dict[str, object] = field(default_factory=dict, compare=False, repr=False)
+    # memo of derived arrays, one type per key (each accessor returns its own type)
+    _cache: dict[str, Any] = field(default_factory=dict, compare=False, repr=False)
 
     # -- sizes ----------------------------------------------------------------
     @property
@@ -180,7 +182,7 @@ class Linkage:
         """``ancestors`` as 0.0/1.0 (multiplying by floats is faster than by booleans)."""
         if "float_ancestors" not in self._cache:
             self._cache["float_ancestors"] = self.ancestors.astype(float)
-        return self._cache["float_ancestors"]  # type: ignore[return-value]
+        return self._cache["float_ancestors"]
 
     @property
     def axis_direction(self) -> Array:
@@ -192,7 +194,7 @@ class Linkage:
             n = np.linalg.norm(d, axis=-1, keepdims=True)
             moving = (self.mount == HINGE) | (self.mount == SLIDE)
             self._cache["axis"] = np.where(moving[None, :, None], d / np.where(n > 0, n, 1), 0.0)
-        return self._cache["axis"]  # type: ignore[return-value]
+        return self._cache["axis"]
 
     @property
     def axis_origin(self) -> Array:
@@ -205,7 +207,7 @@ class Linkage:
         if "rod_length" not in self._cache:
             d = self.points[:, self.rod_ends[:, 0]] - self.points[:, self.rod_ends[:, 1]]
             self._cache["rod_length"] = np.linalg.norm(d, axis=-1)
-        return self._cache["rod_length"]  # type: ignore[return-value]
+        return self._cache["rod_length"]
 
     # -- poses --------------------------------------------------------------------
     def design_pose(self, count: int = 1) -> Pose:
@@ -243,7 +245,7 @@ class Linkage:
     def _levels(self) -> list[dict[str, np.ndarray]]:
         """Hinged and sliding bodies grouped by depth in the tree, with axis data (G, n)."""
         if "levels" in self._cache:
-            return self._cache["levels"]  # type: ignore[return-value]
+            return self._cache["levels"]
         depth = np.zeros(self.n_bodies, dtype=int)
         for b in self.order[1:]:
             depth[b] = 1 if self.mount[b] == FREE else depth[self.parent[b]] + 1
@@ -277,7 +279,7 @@ class Linkage:
                 for b in range(self.n_bodies)
                 if np.any(self.point_body == b)
             ]
-        return self._cache["points_by_body"]  # type: ignore[return-value]
+        return self._cache["points_by_body"]
 
     def _homogeneous_points(self) -> tuple[Array, NDArray[np.intp], NDArray[np.intp]]:
         """Points as homogeneous columns (G, 4, np) and the gather indices of their body."""
@@ -288,7 +290,7 @@ class Linkage:
             rows = 3 * self.point_body[:, None] + np.arange(3)[None, :]
             which = np.broadcast_to(np.arange(len(self.point_body))[:, None], rows.shape)
             self._cache["homogeneous"] = (cols, rows, np.ascontiguousarray(which))
-        return self._cache["homogeneous"]  # type: ignore[return-value]
+        return self._cache["homogeneous"]
 
     def kinematics(self, pose: Pose, twists: bool = True) -> Kinematics:
         """Body poses, point positions and (unless ``twists`` is False, when only
@@ -391,7 +393,7 @@ class Linkage:
             nc = len(self.ball_components)
             ends = np.concatenate((self.rod_ends, np.repeat(self.ball_ends, nc, axis=0)))
             self._cache["member_rows"] = (ends, self.point_body[ends])
-        return self._cache["member_rows"]  # type: ignore[return-value]
+        return self._cache["member_rows"]
 
     def member_rows(self, kin: Kinematics) -> tuple[Array, Array, NDArray[np.intp]]:
         """Rod and ball-joint rows: residual (B, m) mm, gradient (B, m, 3) and ends (m, 2).

@@ -111,7 +111,8 @@ def analyse_mobility(link: Linkage) -> Mobility:
     m, n = scaled.shape
     free: list[str] = []
     for vec in vt[rank:n]:
-        free.append(_describe_motion(link, kin, vec * scale))
+        coords = vec * scale
+        free.append(_axis_cause(link, vec) or _describe_motion(link, kin, coords))
     redundant: list[str] = []
     groups: list[tuple[str, ...]] = []
     if m > rank:
@@ -141,6 +142,57 @@ def analyse_mobility(link: Linkage) -> Mobility:
         redundant=tuple(redundant),
         redundant_members=tuple(groups),
     )
+
+
+AXIS_PARALLEL_DEG = 1.0
+"""A rod within this angle of a rocker's axis, or whose line passes this close (as a
+fraction of the rod length) to the axis, cannot turn the rocker."""
+
+
+def _axis_cause(link: Linkage, vec: Array) -> str | None:
+    """When a rocker is free to turn about its own axis because every rod on it is
+    parallel to the axis or meets it, name that rod: the fix is the axis, not a rod."""
+    if link.n_bodies < 2:
+        return None
+    weight = np.abs(vec)
+    for b in range(1, link.n_bodies):
+        if link.mount[b] != HINGE or link.body_kind[b] != "rocker":
+            continue
+        j = link.joint_index[b]
+        if weight[j] < 0.5 * weight.max():
+            continue
+        u = link.axis_direction[0, b]
+        a = link.axis_origin[0, b]
+        rods: list[tuple[str, float, bool]] = []
+        effective = False
+        for r, (p, o) in enumerate(link.rod_ends):
+            for here, there in ((p, o), (o, p)):
+                if link.point_body[here] != b:
+                    continue
+                d = link.points[0, there] - link.points[0, here]
+                length = float(np.linalg.norm(d))
+                arm = float(np.dot(np.cross(link.points[0, here] - a, d / length), u))
+                angle = float(np.degrees(np.arccos(min(1.0, abs(np.dot(d, u)) / length))))
+                parallel = angle < AXIS_PARALLEL_DEG
+                if parallel or abs(arm) < np.radians(AXIS_PARALLEL_DEG) * length:
+                    rods.append((link.rod_names[r], angle, parallel))
+                else:
+                    effective = True
+        if effective or not rods:
+            continue
+        name, angle, parallel = rods[0]
+        only = "the only rod on it" if len(rods) == 1 else "every rod on it"
+        how = (
+            f"runs parallel to its axis ({angle:.1f}° from it)"
+            if parallel
+            else "points straight at its axis"
+        )
+        return (
+            f"rocker '{link.body_names[b]}' is free to turn about its own pivot axis: rod "
+            f"'{name}' ({only}) {how}, so it cannot turn the rocker; turn the rocker's "
+            "axis (axis_mm) so that it is square to the rod, or move the rod's pickups"
+        )
+    return None
 
 
 def _describe_motion(link: Linkage, kin: Kinematics, coords: Array) -> str:

@@ -154,9 +154,11 @@ def reduce_linkage(link: Linkage, moved: NDArray[np.intp]) -> Reduction | None:
         elements=carrier_elements + elements,
         pickups=pickups,
     )
+    if any(kinds[b] == "rocker" and int(link.parent[b]) != 0 for b in route_bodies):
+        return None  # a rocker hung from a corner body or an element (an equaliser)
     try:
         route = build_linkage(sub_design)
-    except ValueError:  # a rocker hung from a corner body: its carrier comes too late
+    except ValueError:
         return None
     if route.n_rows != route.n_coords - len(carriers) * route.free_basis.shape[1]:
         return None

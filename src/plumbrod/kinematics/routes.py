@@ -5,7 +5,9 @@ on bodies that reach only the chassis) or the last rod of a route: from its othe
 the bodies joined by rods and hinges (without passing through the chassis or an
 element) reach one or more corners.  The rod that meets the element receives the load;
 the rods that meet the corner's bodies deliver it.  A strut from the element straight to
-an upright does both.
+an upright does both.  An equaliser (a rocker pivoting on an element) counts as part of
+its element: a rod from it starts a route of that element at the equaliser's pickup.
+A rod between two elements is neither a route nor a guide.
 """
 
 from __future__ import annotations
@@ -15,7 +17,7 @@ from dataclasses import dataclass
 
 from plumbrod.design.model import CHASSIS, Design
 
-__all__ = ["Route", "RouteMap", "find_routes"]
+__all__ = ["Route", "RouteMap", "element_of_body", "find_routes"]
 
 
 @dataclass(frozen=True)
@@ -54,7 +56,8 @@ class RouteMap:
 def find_routes(design: Design) -> RouteMap:
     """Trace every rod that meets an element to its corner(s) or to the chassis."""
     body_of = {key: p.body for key, p in design.pickups.items()}
-    elements = {e.name for e in design.elements}
+    carrier = element_of_body(design)
+    elements = set(carrier)
     corner_of: dict[str, str] = {}
     for corner in design.corners:
         for body in corner.bodies:
@@ -78,9 +81,9 @@ def find_routes(design: Design) -> RouteMap:
     for rod in design.rods:
         ends = [(rod.end_a, rod.end_b), (rod.end_b, rod.end_a)]
         for near, far in ends:
-            element = body_of[near]
-            if element not in elements or body_of[far] in elements:
+            if body_of[near] not in elements or body_of[far] in elements:
                 continue
+            element = carrier[body_of[near]]
             start = body_of[far]
             if start == CHASSIS:
                 guides.append(rod.name)
@@ -114,6 +117,16 @@ def find_routes(design: Design) -> RouteMap:
                 )
             )
     return RouteMap(tuple(routes), tuple(guides))
+
+
+def element_of_body(design: Design) -> dict[str, str]:
+    """Every body on the element side, mapped to its element: the elements themselves
+    and the equalisers (rockers whose parent is an element)."""
+    out = {e.name: e.name for e in design.elements}
+    for rocker in design.rockers:
+        if rocker.parent in out:
+            out[rocker.name] = out[rocker.parent]
+    return out
 
 
 def _component(start: str, neighbours: dict[str, set[str]], stops: set[str]) -> set[str]:

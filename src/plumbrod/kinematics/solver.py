@@ -30,6 +30,7 @@ from plumbrod.kinematics.linkage import Kinematics, Linkage
 __all__ = [
     "RESIDUAL_TOL_MM",
     "Solved",
+    "diagnose_failure",
     "evaluate",
     "evaluate_residual",
     "newton",
@@ -54,13 +55,19 @@ class Solved:
     residual: Array  # (B, m) mm, drivers last
     jacobian: Array  # (B, m, nq)
     iterations: int
+    elastic_rows: tuple[int, ...] = ()
+    """Rows solved as springs (redundant rods, :mod:`plumbrod.kinematics.elastic`): their
+    residual is the rod's stretch, not an error, and is left out of ``residual_max_mm``."""
 
     @property
     def residual_max_mm(self) -> Array:
-        """(B,) largest absolute residual of each pose."""
-        if self.residual.shape[1] == 0:
-            return np.zeros(self.residual.shape[0])
-        return np.abs(self.residual).max(axis=1)
+        """(B,) largest absolute residual of each pose (rigid rows only)."""
+        res = self.residual
+        if self.elastic_rows:
+            res = np.delete(res, list(self.elastic_rows), axis=1)
+        if res.shape[1] == 0:
+            return np.zeros(res.shape[0])
+        return np.abs(res).max(axis=1)
 
 
 def evaluate(link: Linkage, drive: Drive, pose: Pose) -> tuple[Kinematics, Array, Array]:
@@ -308,11 +315,13 @@ def _continue(
             pose, current, done = solved.pose, nxt, done + step
             step = min(step * 2.0, 1.0)
             continue
+        hint = "branch-change" if ok[0] else "cannot-reach"
         step *= 0.5
         if step < MIN_CONTINUATION_STEP:
             last_kin, _, last_jac = evaluate(link, drive.with_parameters(current[None]), pose)
-            member, detail = _diagnose(link, solved, last_kin, last_jac)
-            raise AssemblyError(member, sweep_name, describe(nxt), detail)
+            raise diagnose_failure(
+                link, solved, last_kin, last_jac, solved.residual, hint, sweep_name, describe(nxt)
+            )
     return pose
 
 
@@ -321,43 +330,89 @@ DEAD_POINT_DEG = 10.0
 reached is named as the cause when the linkage stops assembling."""
 
 
-def _diagnose(
-    link: Linkage, solved: Solved, last_kin: Kinematics, last_jac: Array
-) -> tuple[str, str]:
-    """Name the member that fails.
+def _member(label: str) -> str:
+    return label.split("'")[1] if "'" in label else label
 
-    Near the last pose reached: a rod end at a dead point (transmission angle near 0°
-    or 180°, the rod in line with its arm); else the rod the singular direction of the
-    constraint Jacobian loads most; else the row with the largest residual.
+
+def diagnose_failure(
+    link: Linkage,
+    solved: Solved,
+    last_kin: Kinematics,
+    last_jac: Array,
+    trial_residual: Array,
+    hint: str,
+    sweep_name: str,
+    driver: str,
+    skip_rows: tuple[int, ...] = (),
+) -> AssemblyError:
+    """The error for a pose the continuation cannot reach, with its cause (``kind``).
+
+    ``hint`` is how the last attempt failed: ``branch-change`` when Newton converged but
+    on the other assembly, ``cannot-reach`` when it did not converge.  Then, at the last
+    pose reached:
+
+    * a branch change names the rod the singular direction of the constraint Jacobian
+      loads most (and the rocker, when a rod end there is in line with its arm);
+    * otherwise, a rod end on a hinged body within :data:`DEAD_POINT_DEG` of 0° or 180°
+      is a true dead point (rod and rocker named);
+    * otherwise the row with the largest residual of the failed attempt cannot reach,
+      with how much longer or shorter it would have to be.
+
+    ``skip_rows`` (springs of an elastic solve) are never named as unreachable.
     """
     from plumbrod.kinematics.transmission import joint_labels, transmission_angles
 
+    labels = [*link.row_labels(), *(f"corner '{c}' driver" for c in link.corner_names)]
+    nr = len(link.rod_names)
     mu, _ = transmission_angles(link, last_kin)
+    toggle: tuple[str, str, float] | None = None
     if mu.shape[1]:
         off = np.minimum(mu[0], 180.0 - mu[0])
         j = int(np.argmin(off))
         if off[j] < DEAD_POINT_DEG:
             rod, body = joint_labels(link)[j]
-            return rod, (
-                f"rod '{rod}' reaches a dead point at '{body}' (transmission angle "
-                f"{mu[0, j]:.1f}°): it is in line with the arm and cannot push the "
-                "linkage further"
-            )
-    labels = [*link.row_labels(), *(f"corner '{c}' driver" for c in link.corner_names)]
-    u, sigma, _ = np.linalg.svd(last_jac[0])
-    if sigma.size and sigma[-1] < 1e-3 * sigma[0]:
-        weight = np.abs(u[:, -1])
-        weight[len(link.rod_names) :] = 0.0  # name a rod
-        if weight.any():
-            row = int(np.argmax(weight))
-            name = labels[row]
-            member = name.split("'")[1] if "'" in name else name
-            return member, (
-                f"{name} reaches a dead point: the linkage would have to flip "
-                "to its other assembly to go further"
-            )
-    row = int(np.argmax(np.abs(solved.residual[0])))
+            toggle = (rod, body, float(mu[0, j]))
+    if hint == "branch-change":
+        u, sigma, _ = np.linalg.svd(last_jac[0])
+        weight = np.abs(u[:, -1]) if sigma.size else np.zeros(len(labels))
+        weight[nr:] = 0.0
+        row = int(np.argmax(weight)) if weight.any() else 0
+        name = toggle[0] if toggle else _member(labels[row])
+        at = f" at '{toggle[1]}' (transmission angle {toggle[2]:.1f}°)" if toggle else ""
+        return AssemblyError(
+            name,
+            sweep_name,
+            driver,
+            f"branch change: rod '{name}'{at} passes a singular pose and the linkage would "
+            "go on in its other assembly (a body flips over); limit the sweep to this side, "
+            "or move the pickups so the rods never fall in line",
+            kind="branch-change",
+        )
+    if toggle is not None:
+        rod, body, angle = toggle
+        return AssemblyError(
+            rod,
+            sweep_name,
+            driver,
+            f"dead point: rod '{rod}' is in line with its arm on '{body}' (transmission "
+            f"angle {angle:.1f}°) and cannot turn it further; lengthen the arm, move the "
+            "rod's pickups, or limit the sweep",
+            kind="dead-point",
+        )
+    res = np.array(trial_residual[0], dtype=float)
+    res[list(skip_rows)] = 0.0
+    row = int(np.argmax(np.abs(res)))
     name = labels[row]
-    member = name.split("'")[1] if "'" in name else name
-    value = float(solved.residual[0, row])
-    return member, f"{name} cannot be satisfied (residual {value:+.3g} mm): it cannot reach"
+    value = float(res[row])
+    if row < nr:
+        how = f"{abs(value):.3g} mm {'longer' if value > 0 else 'shorter'}"
+        text = (
+            f"rod '{_member(name)}' cannot reach: it would have to be {how} (the bodies it "
+            "joins part further than it allows); check its pickups and the sweep's range"
+        )
+    else:
+        text = (
+            f"{name} cannot be satisfied (residual {value:+.3g} mm): the linkage cannot reach "
+            "this pose; check the pickups and the sweep's range"
+        )
+    return AssemblyError(_member(name), sweep_name, driver, text, kind="cannot-reach")

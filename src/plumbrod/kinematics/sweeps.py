@@ -15,6 +15,7 @@ from numpy.typing import NDArray
 
 from plumbrod.design.model import Sweeps
 from plumbrod.kinematics.drives import BodyDrive, Drive, TravelDrive
+from plumbrod.kinematics.elastic import ElasticSetup, ElasticSolution, solve_elastic
 from plumbrod.kinematics.linkage import Linkage
 from plumbrod.kinematics.solver import Solved, solve_poses, tangent
 
@@ -62,6 +63,8 @@ class SweepResult:
     spec: SweepSpec
     solved: Solved
     tangent: Array
+    elastic: ElasticSolution | None = None
+    """For a redundantly located design: the springs' stretch and fight forces."""
 
     @property
     def name(self) -> str:
@@ -108,11 +111,22 @@ def sweep_specs(link: Linkage, sweeps: Sweeps) -> list[SweepSpec]:
     return specs
 
 
-def run_sweep(link: Linkage, spec: SweepSpec) -> SweepResult:
-    """Solve one sweep; raises AssemblyError where the linkage does not assemble."""
-    solved = solve_poses(
-        link, spec.drive, sweep_name=spec.name, describe=lambda p: _describe_parameters(spec, p)
-    )
+def run_sweep(link: Linkage, spec: SweepSpec, springs: ElasticSetup | None = None) -> SweepResult:
+    """Solve one sweep; raises AssemblyError where the linkage does not assemble.
+
+    With ``springs`` (a redundantly located design, :func:`elastic_setup`) every pose is
+    the elastic minimum; without, the rigid solution.
+    """
+
+    def describe(p: Array) -> str:
+        return _describe_parameters(spec, p)
+
+    if springs is not None:
+        solved, elastic = solve_elastic(
+            link, spec.drive, springs, sweep_name=spec.name, describe=describe
+        )
+        return SweepResult(spec, solved, elastic.tangent, elastic)
+    solved = solve_poses(link, spec.drive, sweep_name=spec.name, describe=describe)
     tan = tangent(link, spec.drive, solved.kin, solved.jacobian)
     return SweepResult(spec, solved, tan)
 
@@ -128,6 +142,8 @@ def _describe_parameters(spec: SweepSpec, params: Array) -> str:
     return describe_values({k: v for k, v in values.items() if v != 0.0} or values)
 
 
-def run_sweeps(link: Linkage, sweeps: Sweeps) -> dict[str, SweepResult]:
-    """Solve every sweep the design asks for."""
-    return {spec.name: run_sweep(link, spec) for spec in sweep_specs(link, sweeps)}
+def run_sweeps(
+    link: Linkage, sweeps: Sweeps, springs: ElasticSetup | None = None
+) -> dict[str, SweepResult]:
+    """Solve every sweep the design asks for (elastically with ``springs``)."""
+    return {spec.name: run_sweep(link, spec, springs) for spec in sweep_specs(link, sweeps)}

@@ -38,7 +38,7 @@ def hinged_rod_ends(link: Linkage) -> tuple[NDArray[np.intp], NDArray[np.intp], 
             np.array(here, dtype=np.intp),
             np.array(there, dtype=np.intp),
         )
-    return link._cache[key]  # type: ignore[return-value]
+    return link._cache[key]
 
 
 def joint_labels(link: Linkage) -> list[tuple[str, str]]:

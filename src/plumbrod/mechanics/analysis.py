@@ -12,9 +12,13 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+import numpy as np
+from numpy.typing import NDArray
+
 from plumbrod.design.model import Design
 from plumbrod.errors import LocationError
 from plumbrod.kinematics.build import build_linkage
+from plumbrod.kinematics.elastic import ElasticSetup, elastic_setup
 from plumbrod.kinematics.figures import SweepFigures, sweep_figures
 from plumbrod.kinematics.linkage import Linkage
 from plumbrod.kinematics.mobility import Mobility, analyse_mobility
@@ -22,10 +26,18 @@ from plumbrod.kinematics.routes import RouteMap, find_routes
 from plumbrod.kinematics.sweeps import SweepResult, run_sweeps
 from plumbrod.mechanics.loads import AppliedLoads, applied_loads, design_load_cases
 from plumbrod.mechanics.members import Member, resolve_members
+from plumbrod.mechanics.redundancy import (
+    Redundancy,
+    fight_forces,
+    redundancy_summary,
+    rod_stiffness,
+)
 from plumbrod.mechanics.springs import SpringLoads, spring_loads
 from plumbrod.mechanics.statics import Statics, solve_statics
 
 __all__ = ["Analysis", "analyse"]
+
+Array = NDArray[np.float64]
 
 
 @dataclass(frozen=True)
@@ -44,6 +56,24 @@ class Analysis:
     statics: dict[str, Statics]
     springs: SpringLoads | None = None
     """Spring-load changes (DESIGN §5a); None without a load case."""
+    elastic: ElasticSetup | None = None
+    """The rods solved as springs k = EA/L when the design is located redundantly
+    (DESIGN §4a); their fight forces are in ``rod_force_N``."""
+
+    def rod_force_N(self, sweep: str) -> Array:
+        """(B, K, nr) every link rod's force per load case in a sweep (+ tension): the
+        load case's elastic or rigid statics plus the sweep's fight forces (DESIGN §4a).
+        ``statics[sweep].rod_force_N`` is the loads' part alone."""
+        st = self.statics[sweep]
+        fight = fight_forces(self.link, self.sweeps[sweep])
+        if fight is None:
+            return st.rod_force_N
+        return st.rod_force_N + fight.rod_force_N[:, None, :]
+
+    @property
+    def redundancy(self) -> Redundancy | None:
+        """Fight forces and mismatch of a redundantly located design, else None."""
+        return redundancy_summary(self.link, self.elastic, self.sweeps)
 
 
 def locate(design: Design) -> tuple[Linkage, Mobility, RouteMap]:
@@ -78,7 +108,8 @@ def analyse(design: Design) -> Analysis:
     """Locate, solve every sweep, compute the kinematic figures and the statics."""
     members = resolve_members(design)
     link, mobility, routes = locate(design)
-    sweeps = run_sweeps(link, design.sweeps)
+    elastic = elastic_setup(link, rod_stiffness(link, members)) if mobility.redundant else None
+    sweeps = run_sweeps(link, design.sweeps, elastic)
     figures = {name: sweep_figures(link, routes, res) for name, res in sweeps.items()}
     cases = design_load_cases(design)
     loads = applied_loads(design, link, members, routes, cases) if cases else None
@@ -95,5 +126,5 @@ def analyse(design: Design) -> Analysis:
         else spring_loads(link, routes, members, loads, sweeps, statics)
     )
     return Analysis(
-        design, link, mobility, routes, sweeps, figures, members, loads, statics, springs
+        design, link, mobility, routes, sweeps, figures, members, loads, statics, springs, elastic
     )

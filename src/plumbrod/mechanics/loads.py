@@ -21,7 +21,7 @@ from numpy.typing import NDArray
 
 from plumbrod.design.model import PLANE_NORMAL_AXIS, Design, Element, LoadCase, Vec3
 from plumbrod.kinematics.linkage import Linkage
-from plumbrod.kinematics.routes import RouteMap
+from plumbrod.kinematics.routes import RouteMap, element_of_body
 from plumbrod.mechanics.members import Member
 from plumbrod.mechanics.plates import rocker_mass_kg
 
@@ -158,12 +158,15 @@ def applied_loads(
             owner_of_body.setdefault(body, e)
         for rod_name in (*route.receiving_rods, *route.delivering_rods):
             owner_of_rod.setdefault(rod_name, e)
+    carrier = element_of_body(design)  # elements and their equalisers
+    for body, carried_by in carrier.items():
+        owner_of_body.setdefault(body, elements.index(carried_by))
     body_of = {key: p.body for key, p in design.pickups.items()}
     for rod in design.rods:  # rods inside a route, and guides
         for end in (rod.end_a, rod.end_b):
             body = body_of[end]
-            if body in elements:
-                owner_of_rod.setdefault(rod.name, elements.index(body))
+            if body in carrier:
+                owner_of_rod.setdefault(rod.name, elements.index(carrier[body]))
             elif body in owner_of_body:
                 owner_of_rod.setdefault(rod.name, owner_of_body[body])
 

@@ -79,7 +79,7 @@ def mass_report(analysis: Analysis) -> MassReport:
 
     nc = len(link.corner_names)
     spec = SweepSpec("design", TravelDrive(np.zeros((1, nc))), {"travel_mm": np.zeros(1)})
-    result = run_sweep(link, spec)
+    result = run_sweep(link, spec, analysis.elastic)
     gravity = applied_loads(
         design, link, analysis.members, analysis.routes, (LoadCase("gravity", 0.0),)
     )

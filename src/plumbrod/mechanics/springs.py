@@ -43,6 +43,7 @@ from numpy.typing import NDArray
 from plumbrod.design.car import CarLayout, SpringPoint, car_layout
 from plumbrod.design.model import Design
 from plumbrod.kinematics.drives import BodyDrive
+from plumbrod.kinematics.elastic import ElasticSetup
 from plumbrod.kinematics.figures import ground_frame
 from plumbrod.kinematics.frames import cross
 from plumbrod.kinematics.linkage import Linkage
@@ -384,11 +385,11 @@ def _spring_points(layout: CarLayout) -> list[SpringPoint]:
     return [s for ax in layout.axles for s in ax.springs]
 
 
-def design_pose_sweep(link: Linkage) -> SweepResult:
-    """The design pose alone, as a one-pose body sweep."""
+def design_pose_sweep(link: Linkage, elastic: ElasticSetup | None = None) -> SweepResult:
+    """The design pose alone, as a one-pose body sweep (elastic for a redundant design)."""
     centre = link.design.sweeps.motion_centre_mm
     spec = SweepSpec(DESIGN_POSE, BodyDrive(np.zeros((1, 3)), centre), {})
-    return run_sweep(link, spec)
+    return run_sweep(link, spec, elastic)
 
 
 def spring_loads(
@@ -409,7 +410,8 @@ def spring_loads(
         name: _sweep_springs(link, loads, layout, landed, refs, sweeps[name], st)
         for name, st in statics.items()
     }
-    pose = design_pose_sweep(link)
+    elastic = next((r.elastic.setup for r in sweeps.values() if r.elastic is not None), None)
+    pose = design_pose_sweep(link, elastic)
     design_st = solve_statics(link, routes, members, loads, pose)
     at_design = _sweep_springs(link, loads, layout, landed, refs, pose, design_st)
 

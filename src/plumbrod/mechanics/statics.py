@@ -28,6 +28,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from plumbrod.kinematics.drives import BodyDrive
+from plumbrod.kinematics.elastic import ElasticSetup, elastic_response
 from plumbrod.kinematics.figures import ground_frame
 from plumbrod.kinematics.frames import cross
 from plumbrod.kinematics.linkage import FREE, SLIDE, Kinematics, Linkage
@@ -35,6 +36,7 @@ from plumbrod.kinematics.routes import RouteMap
 from plumbrod.kinematics.sweeps import SweepResult
 from plumbrod.mechanics.loads import AppliedLoads
 from plumbrod.mechanics.members import Member
+from plumbrod.mechanics.redundancy import spring_compliance, unit_rod_rows
 
 __all__ = ["Statics", "reference_points", "solve_statics"]
 
@@ -114,6 +116,8 @@ def solve_statics(
     # constraint rows: members, then one ground contact per wheel
     _, jac_m = link.residual_and_jacobian(kin)
     _, grad, ends = link.member_rows(kin)
+    if result.elastic is not None:  # stretched springs: rod forces along the unit direction
+        jac_m, grad = unit_rod_rows(len(link.rod_names), jac_m, grad)
     _, jac_c = contact.rows(link, kin)
     jac = np.concatenate((jac_m, jac_c), axis=1)  # (B, m', nq)
     m_rows, n_members = jac.shape[1], jac_m.shape[1]
@@ -130,7 +134,10 @@ def solve_statics(
 
     # multipliers (columns: case-major, element-minor)
     elastic = m_rows > jac.shape[2]
-    lam = _multipliers(jac, q, _compliance(link, members, m_rows), elastic)
+    compliance = _compliance(link, members, m_rows)
+    if result.elastic is not None:  # the redundant rods are the springs, the rest rigid
+        compliance = spring_compliance(result.elastic.setup, compliance)
+    lam = _multipliers(jac, q, compliance, elastic)
     lam_k = lam.reshape(n, m_rows, k_cases, n_el)
     nr = len(link.rod_names)
     rod_force = -lam_k[:, :nr].sum(axis=3).transpose(0, 2, 1)
@@ -198,7 +205,19 @@ def solve_statics(
         chassis_wrench=chassis,
         leakage=_leakage(chassis, rot, trans, refs),
         leakage_virtual_work=_virtual_work(
-            link, kin, jac, n_members, contact, rot, trans, refs, lp, jl, f_ground, owner
+            link,
+            kin,
+            jac,
+            n_members,
+            contact,
+            rot,
+            trans,
+            refs,
+            lp,
+            jl,
+            f_ground,
+            owner,
+            None if result.elastic is None else result.elastic.setup,
         ),
         vertical_load_N=np.broadcast_to(vertical, (n, k_cases, n_el)).copy(),
         applied_wrench=applied,
@@ -292,6 +311,7 @@ def _virtual_work(
     jl: Array,
     f_ground: Array,
     owner: Array,
+    springs: ElasticSetup | None = None,
 ) -> Array:
     """(B, K, E, 3) leakage by virtual work: Σ F·δp for a chassis heave, and for roll and
     pitch about ground axes through each element's reference point, wheels on the
@@ -307,6 +327,8 @@ def _virtual_work(
             rhs[:, n_members:, 3 * e + j] = np.einsum("bi,bci->bc", d_up, levers) + d_tz[:, None]
     if jac.shape[1] == jac.shape[2]:
         dq = -np.linalg.solve(jac, rhs)
+    elif springs is not None:  # redundant: the motion the springs allow at least energy
+        dq = -elastic_response(springs, jac, rhs)
     else:
         dq = -(np.linalg.pinv(jac, rcond=1e-12) @ rhs)
     moved = np.einsum("bliq,bqc->blic", jl, dq)  # (B, nl, 3, 3E) chassis frame

@@ -81,7 +81,7 @@ def rod_reserves(analysis: Analysis) -> dict[str, RodReserve]:
         comp: WorstForce | None = None
         tens: WorstForce | None = None
         for sweep, st in analysis.statics.items():
-            f = st.rod_force_N[..., j]  # (B, K)
+            f = analysis.rod_force_N(sweep)[..., j]  # (B, K), fight forces included
             b, k = np.unravel_index(int(np.argmin(f)), f.shape)
             if f[b, k] < -FORCE_FLOOR_N and (comp is None or f[b, k] < comp.force_N):
                 comp = WorstForce(float(f[b, k]), sweep, int(b), st.cases[k])

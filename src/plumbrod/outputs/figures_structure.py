@@ -32,10 +32,9 @@ def reserve_factors(findings: Findings, case: int) -> dict[str, np.ndarray]:
     """Each design rod's reserve factor through the travel sweep for one load case:
     P_cr/|P| in compression, S_y·A/P in tension (inf where the force is zero)."""
     analysis = findings.analysis
-    st = analysis.statics["travel"]
     out: dict[str, np.ndarray] = {}
     for rod in analysis.design.rods:
-        force = st.rod_force_N[:, case, analysis.link.rod_names.index(rod.name)]
+        force = analysis.rod_force_N("travel")[:, case, analysis.link.rod_names.index(rod.name)]
         reserve = findings.reserves[rod.name]
         with np.errstate(divide="ignore"):
             out[rod.name] = np.where(

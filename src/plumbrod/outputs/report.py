@@ -18,6 +18,7 @@ from plumbrod.kinematics.reach import wheels_beyond_travel
 from plumbrod.mechanics.analysis import Analysis
 from plumbrod.mechanics.members import Member
 from plumbrod.outputs.cautions import CAUTION
+from plumbrod.outputs.redundancy_report import redundancy_json, redundancy_lines
 from plumbrod.outputs.springs_report import springs_json, springs_lines
 from plumbrod.verdict.checks import CheckResult
 from plumbrod.verdict.findings import Findings
@@ -207,6 +208,7 @@ def as_text(findings: Findings) -> str:
             "over-constrained: forces come from an elastic solution with rod "
             "stiffness EA/L, so they depend on the members' stiffness"
         )
+    lines += redundancy_lines(analysis)
     lines.append("")
     rows: list[tuple[str, ...]] = [("check", "status", "value", "limit", "worst at")]
     for c in checks:
@@ -408,6 +410,9 @@ def as_json(findings: Findings, *, indent: int | None = 1) -> str:
         "sweeps": sweep_json(analysis),
         "caution": CAUTION,
     }
+    redundancy = redundancy_json(analysis)
+    if redundancy is not None:  # exactly located designs keep their report unchanged
+        doc["redundancy"] = redundancy
     return json.dumps(doc, indent=indent, ensure_ascii=False) + "\n"
 
 

@@ -63,12 +63,16 @@ def _columns_of_sweep(analysis: Analysis, name: str) -> dict[str, Array]:
         cols[f"{rod}/line_of_action_deg"] = angle
     for j, (rod, body) in enumerate(fig.transmission_labels):
         cols[f"{rod}@{body}/transmission_deg"] = fig.transmission_deg[:, j]
+    if res.elastic is not None:  # redundant location: what the motion alone does
+        for j, r in enumerate(res.elastic.setup.rods):
+            cols[f"fight/{link.rod_names[r]}/force_N"] = res.elastic.force_N[:, j]
     st = analysis.statics.get(name)
     if st is not None:
         design_rods = [r.name for r in analysis.design.rods]
+        total = analysis.rod_force_N(name)  # fight forces included
         for k, case in enumerate(st.cases):
             for rod in design_rods:
-                cols[f"{case}/{rod}/force_N"] = st.rod_force_N[:, k, link.rod_names.index(rod)]
+                cols[f"{case}/{rod}/force_N"] = total[:, k, link.rod_names.index(rod)]
             for route_name, force in st.upright_force_N.items():
                 f = force[:, k]
                 for axis, label in enumerate("xyz"):

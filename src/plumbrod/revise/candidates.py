@@ -32,7 +32,7 @@ from plumbrod.design.tune_spec import TuneSpec
 from plumbrod.kinematics.design_grid import GridSolution, solve_grid
 from plumbrod.kinematics.drives import BodyDrive, TravelDrive
 from plumbrod.kinematics.figures import ride_heights, sweep_figures
-from plumbrod.kinematics.linkage import Linkage
+from plumbrod.kinematics.linkage import Kinematics, Linkage
 from plumbrod.kinematics.reduced import reduce_linkage, solve_grid_reduced
 from plumbrod.kinematics.solver import Solved
 from plumbrod.kinematics.sweeps import SweepResult, SweepSpec
@@ -295,9 +295,7 @@ def _subset(grid: GridSolution, designs: NDArray[np.intp]) -> GridSolution:
     )
 
 
-def _take_kin(grid: GridSolution, rows: NDArray[np.intp]):  # type: ignore[no-untyped-def]
-    from plumbrod.kinematics.linkage import Kinematics
-
+def _take_kin(grid: GridSolution, rows: NDArray[np.intp]) -> Kinematics:
     k = grid.kin
     return Kinematics(k.rotation[rows], k.translation[rows], k.points[rows], k.columns[rows])
 
