@@ -69,7 +69,8 @@ def test_the_command_line_exits_3_with_one_line_and_writes_nothing(tmp_path: Pat
         check=False,
         env=env,
     )
-    assert done.returncode == 3  # a dead point (cli/main.py EXIT_ASSEMBLY)
+    assert done.returncode == 1  # the design fails
+    assert "plumbrod: fail (dead-point):" in done.stderr
     assert done.stdout == ""
     assert done.stderr.count("\n") == 1 and "Traceback" not in done.stderr
     assert "rod 'drive'" in done.stderr and "sweep 'travel'" in done.stderr

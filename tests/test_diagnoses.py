@@ -48,7 +48,8 @@ def test_a_true_dead_point_names_the_rod_and_the_rocker(tmp_path: Path) -> None:
     # (plane geometry, common practice, no source; see test_assembly_errors)
     text = side_chain_text(SideChain(travel_mm=(-80.0, 40.0), travel_steps=121), body_sweeps=False)
     done = _run(tmp_path, text)
-    assert done.returncode == 3
+    assert done.returncode == 1
+    assert "plumbrod: fail (dead-point):" in done.stderr
     assert "dead point: rod 'drive' is in line with its arm on 'lever'" in done.stderr
     travel = float(re.search(r"travel ([+-]\d+\.\d+) mm", done.stderr).group(1))  # type: ignore[union-attr]
     assert travel == pytest.approx(180.0 - math.sqrt(260.0**2 - 80.0**2), abs=1.0)
@@ -128,7 +129,8 @@ def test_a_rod_that_cannot_reach_is_named_with_how_much_it_lacks(tmp_path: Path)
     s_max = float(np.max(h - 300.0 + np.sqrt(90000.0 - dx**2)))
     assert s_max == pytest.approx(46.41, abs=0.01)
     done = _run(tmp_path, _short_guides())
-    assert done.returncode == 4
+    assert done.returncode == 1
+    assert "plumbrod: fail (cannot-reach):" in done.stderr
     assert "cannot reach" in done.stderr and "sweep 'travel'" in done.stderr
     assert re.search(r"rod '(upper|lower|hanger)' cannot reach: it would have to be", done.stderr)
     travel = float(re.search(r"travel ([+-]\d+\.\d+) mm", done.stderr).group(1))  # type: ignore[union-attr]
@@ -145,7 +147,8 @@ def test_an_absurd_redundancy_strain_names_the_rods_and_the_mismatch(tmp_path: P
         "[sweeps.roll]\nrange_deg = [-6.0, 6.0]",
     )
     done = _run(tmp_path, text)
-    assert done.returncode == 5
+    assert done.returncode == 1
+    assert "plumbrod: fail (redundancy-conflict):" in done.stderr
     assert "redundancy conflict" in done.stderr and "sweep 'roll'" in done.stderr
     for rod in ("hanger_front_left", "hanger_rear_left", "hanger_front_right"):
         assert f"'{rod}'" in done.stderr
@@ -221,7 +224,8 @@ def test_a_branch_change_is_named_as_such(tmp_path: Path) -> None:
     # U and C to one point P fold onto each other when U reaches C (travel +100 mm);
     # past it P can go on to either side, and the triangle U-C-P turns over.
     done = _run(tmp_path, _folding_dyad())
-    assert done.returncode == 6, done.stderr
+    assert done.returncode == 1, done.stderr
+    assert "plumbrod: fail (branch-change):" in done.stderr
     assert "branch change" in done.stderr
     travel = float(re.search(r"travel ([+-]\d+\.\d+) mm", done.stderr).group(1))  # type: ignore[union-attr]
     assert 98.0 <= travel <= 104.0

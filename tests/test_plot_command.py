@@ -5,16 +5,19 @@ from __future__ import annotations
 import subprocess
 import sys
 from pathlib import Path
+from xml.etree import ElementTree
 
 import matplotlib.image
 import pytest
+
+from plumbrod.outputs.plots import FIGURES
 
 ROOT = Path(__file__).resolve().parents[1]
 PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"  # source: PNG specification (ISO/IEC 15948), §5.2
 
 
 @pytest.mark.parametrize("example", ["hillclimb_splitter", "planar_undertray"])
-def test_plot_writes_two_readable_pngs(tmp_path: Path, example: str) -> None:
+def test_plot_writes_readable_pngs_and_svgs(tmp_path: Path, example: str) -> None:
     done = subprocess.run(
         [
             sys.executable,
@@ -29,13 +32,19 @@ def test_plot_writes_two_readable_pngs(tmp_path: Path, example: str) -> None:
         text=True,
         check=False,
     )
-    assert done.returncode == 0, done.stderr
-    for kind in ("kinematics", "forces"):
+    # exit 1 exactly when the verdict line says FAIL (the figures are written both ways)
+    last = done.stdout.strip().splitlines()[-1]
+    assert last.startswith("verdict: "), done.stderr
+    assert done.returncode == (1 if last.startswith("verdict: FAIL") else 0), done.stderr
+    for kind in FIGURES:
         path = tmp_path / f"{example}-{kind}.png"
         assert path.read_bytes()[:8] == PNG_SIGNATURE
         image = matplotlib.image.imread(path)  # matplotlib's own reader as the reference
         assert image.ndim == 3 and image.shape[0] > 300 and image.shape[1] > 600
         assert image.std() > 0.01  # not a blank canvas
+        # SVG 1.1 (W3C): an XML document whose root is <svg> in the SVG namespace
+        root = ElementTree.parse(tmp_path / f"{example}-{kind}.svg").getroot()
+        assert root.tag == "{http://www.w3.org/2000/svg}svg"
     assert not list(tmp_path.glob(".*.tmp"))  # no temporary file left behind
 
 
@@ -75,8 +84,8 @@ def test_demo_writes_report_table_and_figures(tmp_path: Path) -> None:
         f"{stem}-report.txt",
         f"{stem}-report.json",
         f"{stem}-sweep.csv",
-        f"{stem}-kinematics.png",
-        f"{stem}-forces.png",
+        *(f"{stem}-{kind}.png" for kind in FIGURES),
+        *(f"{stem}-{kind}.svg" for kind in FIGURES),
     } <= names
     # the bundled splitter passes every check but element-attitude, which warns: on the
     # front axle only it pitches with the body, as it would bolted (DESIGN §5a)

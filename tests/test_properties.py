@@ -15,7 +15,7 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from hypothesis import given, settings
+from hypothesis import assume, given, settings
 from hypothesis import strategies as st
 
 from designs import (
@@ -27,6 +27,7 @@ from designs import (
     side_chain_text,
     travel_sweep,
 )
+from plumbrod.errors import AssemblyError
 from plumbrod.kinematics.drives import TravelDrive
 from plumbrod.kinematics.solver import newton
 
@@ -82,6 +83,22 @@ def side_chains(draw: st.DrawFn) -> SideChain:
     )
 
 
+def _sweep_or_reject(link, travel):
+    """The travel sweep of a random chain; a chain that reaches a true dead point is
+    rejected, not failed.
+
+    The ranges keep lock-up rare, but a corner of them (the element's instant centre on
+    its guides close to the hanger's line) still reaches a real dead point inside the
+    travel; the tool is right to stop there with a dead-point diagnosis, and the
+    properties below are about chains that assemble over the whole travel.
+    """
+    try:
+        return travel_sweep(link, travel)
+    except AssemblyError as exc:
+        assume(exc.kind != "dead-point")
+        raise
+
+
 @settings(max_examples=250, deadline=None)
 @given(chain=side_chains())
 def test_random_chain_sweeps_holding_every_constraint(chain: SideChain) -> None:
@@ -89,7 +106,7 @@ def test_random_chain_sweeps_holding_every_constraint(chain: SideChain) -> None:
     # pickups their distance to the pivot, bodies their shape; the solver's residual stays
     # below DESIGN §4's 1e-9 mm.
     design, link = parse(side_chain_text(chain, body_sweeps=False), "random chain")
-    result = travel_sweep(link, TRAVEL_MM)
+    result = _sweep_or_reject(link, TRAVEL_MM)
     points = result.solved.kin.points
     assert result.solved.residual_max_mm.max() <= TOL_MM
     for group in (
@@ -114,7 +131,7 @@ def test_random_chain_solved_back_to_zero_travel_returns_to_the_design_pose(
     # From each end of the travel, step back to 0 mm (Newton from the previous pose,
     # 5 mm at a time): every point must land on its design position.
     _, link = parse(side_chain_text(chain, body_sweeps=False), "random chain")
-    result = travel_sweep(link, TRAVEL_MM)
+    result = _sweep_or_reject(link, TRAVEL_MM)
     design_points = link.points[0]
     middle = TRAVEL_MM.size // 2
     for end, path in ((0, TRAVEL_MM[1 : middle + 1]), (-1, TRAVEL_MM[middle:-1][::-1])):

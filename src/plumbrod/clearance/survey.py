@@ -39,7 +39,7 @@ from plumbrod.kinematics.sweeps import describe_values
 from plumbrod.mechanics.analysis import Analysis
 from plumbrod.mechanics.plates import rocker_outlines
 
-__all__ = ["ClearancePair", "ClearanceReport", "clearance_report", "zone_solids"]
+__all__ = ["ClearancePair", "ClearanceReport", "clearance_report", "solids_at", "zone_solids"]
 
 Array = NDArray[np.float64]
 
@@ -447,4 +447,23 @@ def _anchors_inside(moving: list[_Moving], zones: dict[str, Solid]) -> dict[str,
             for i in np.unique(owner[np.asarray(d) <= 0.0]):
                 flags[int(i)] = True
         out[name] = flags
+    return out
+
+
+def solids_at(analysis: Analysis, sweep: str) -> dict[str, Solid]:
+    """Every solid of the clearance survey at the poses of one sweep, by the names its
+    pairs use (``rod 'x'``, ``zone 'x'``, ``tyre 'x'``, ...); moving solids carry that
+    sweep's pose batch, fixed zones none (they broadcast)."""
+    design, link = analysis.design, analysis.link
+    kin = analysis.sweeps[sweep].solved.kin
+    out: dict[str, Solid] = {m.name: m.solid for m in _moving_solids(analysis, [kin])}
+    out.update({name: solid for name, (solid, _) in zone_solids(analysis).items()})
+    if design.plane != "side":
+        for c, corner in enumerate(design.corners):
+            centre = kin.points[:, link.wheel_centre[c]]
+            spin = kin.rotation[:, link.corner_upright[c]] @ link.spin_axis[c]
+            half = corner.tyre_width_mm / 2.0
+            out[f"tyre '{corner.name}'"] = Cylinder(
+                centre - half * spin, centre + half * spin, corner.tyre_radius_mm
+            )
     return out

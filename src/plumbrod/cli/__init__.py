@@ -16,6 +16,7 @@ COMMAND_MODULES: tuple[str, ...] = (
     "size",
     "tune",
     "export",
+    "report",
     "tradeoff",
     "new",
     "schema",

@@ -18,15 +18,14 @@ from collections.abc import Sequence
 
 from plumbrod import __version__
 from plumbrod.cli import COMMAND_MODULES
-from plumbrod.errors import ASSEMBLY_KINDS, AssemblyError, PlumbrodError
+from plumbrod.errors import AssemblyError, PlumbrodError
 from plumbrod.outputs.cautions import CAUTION
 
-__all__ = ["EXIT_ASSEMBLY", "EXIT_BAD_INPUT", "EXIT_FAIL", "EXIT_OK", "build_parser", "main"]
+__all__ = ["EXIT_BAD_INPUT", "EXIT_FAIL", "EXIT_OK", "build_parser", "main"]
 
 EXIT_OK = 0
 EXIT_FAIL = 1
 EXIT_BAD_INPUT = 2
-EXIT_ASSEMBLY = {kind: 3 + i for i, kind in enumerate(ASSEMBLY_KINDS)}
 """A sweep that cannot be solved, by cause: 3 dead point, 4 a rod that cannot reach,
 5 redundancy conflict (rods that would have to strain absurdly), 6 branch change."""
 
@@ -106,8 +105,9 @@ def main(argv: Sequence[str] | None = None) -> int:
         _silence_stdout()
         return EXIT_OK
     except AssemblyError as exc:
-        print(f"plumbrod: fail: {exc}", file=sys.stderr)
-        return EXIT_ASSEMBLY.get(exc.kind, EXIT_FAIL)
+        # the design fails (exit 1, like a failed check); the tag names the cause
+        print(f"plumbrod: fail ({exc.kind}): {exc}", file=sys.stderr)
+        return EXIT_FAIL
     except PlumbrodError as exc:
         print(f"plumbrod: error: {exc}", file=sys.stderr)
         return EXIT_BAD_INPUT

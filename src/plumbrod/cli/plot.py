@@ -14,13 +14,16 @@ __all__ = ["register", "run"]
 def register(subparsers: Any) -> None:
     parser = subparsers.add_parser(
         "plot",
-        help="draw route ratio, ride height, angles and rod forces as PNG figures",
+        help="draw the figures (route ratio, ride height, angles, reserves, clearance) "
+        "as PNG and SVG",
         description=(
-            "Solve a design and draw two PNG figures: <design>-kinematics.png (route "
-            "ratio, ride height against the bolted element, line of action, transmission "
-            "angles) and <design>-forces.png (rod forces per load case through the "
-            "travel, with each compression rod's critical load over the required "
-            "reserve)."
+            "Solve and check a design and draw its figures as PNG and SVG, one idea "
+            "each: <design>-route-ratio, -ride-height (heave, roll, pitch beside the "
+            "bolted element), -line-of-action (every sweep, worst pose marked), "
+            "-transmission, -reserves (every rod's reserve factor per load case) and "
+            "-clearance (the closest pairs). Each title starts with its check's status; "
+            "the right side of a left/right pair is dashed. Prints the verdict line and "
+            "exits 1 when a check fails, like `plumbrod check`."
         ),
         epilog=CAUTION,
     )
@@ -29,7 +32,7 @@ def register(subparsers: Any) -> None:
         "--output-dir",
         metavar="DIR",
         default="exports",
-        help="folder for the PNG files (default: exports)",
+        help="folder for the PNG and SVG files (default: exports)",
     )
     parser.set_defaults(handler=run)
 
@@ -38,6 +41,7 @@ def run(args: argparse.Namespace) -> int:
     from plumbrod.design.loading import load_design
     from plumbrod.outputs.atomic import OutputSet, check_folder
     from plumbrod.outputs.plots import plot_findings
+    from plumbrod.outputs.report import verdict, verdict_line
     from plumbrod.verdict.findings import review
 
     check_folder(args.output_dir, option="--output-dir")
@@ -46,4 +50,5 @@ def run(args: argparse.Namespace) -> int:
         plot_findings(findings, args.output_dir, Path(args.design).stem, into=out)
     for path in out.written:
         print(f"wrote {path}")
-    return 0
+    print(verdict_line(findings.checks))
+    return 1 if verdict(findings.checks) == "fail" else 0

@@ -56,7 +56,8 @@ NOTES: dict[str, str] = {
         "case (the buckling, tension and rod-end checks see the sum); the report names "
         "the rods that could be removed, the largest fight force and where, and how far "
         "the rods would have to change length if they were rigid. Rods that would have "
-        "to strain by more than 1 % are a geometry conflict and stop the sweep (exit 5). "
+        "to strain by more than 1 % are a geometry conflict and stop the sweep "
+        "(`fail (redundancy-conflict)`, exit 1). "
         "An exactly located design gives the same results as before; a redundant one "
         "whose geometry stays compatible has no fight."
     ),

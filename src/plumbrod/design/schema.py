@@ -227,7 +227,8 @@ KEYS: tuple[Key, ...] = (
        default=8.0, maximum=500.0, **_POSITIVE),
     _k("rockers.*.plate.holes_mm", "named", "hole diameters by pickup: { <pickup> = <mm> }"),
     _k("rockers.*.plate.edge_margin_mm", "number",
-       "material left around each hole", unit="mm", default=6.0, maximum=500.0,
+       "material left around each hole (at most 100 mm: the plate outline's cost grows "
+       "with it)", unit="mm", default=6.0, maximum=100.0,
        **_POSITIVE),
     _k("rockers.*.plate.holes_mm.*", "number", "this pickup's hole diameter", unit="mm",
        maximum=500.0, **_POSITIVE),

@@ -33,28 +33,42 @@ allowed at all.
 
 from __future__ import annotations
 
-import io
-import math
 import os
 import re
-from collections.abc import Iterable, Mapping
-from contextlib import contextmanager
+from collections.abc import Mapping
 from dataclasses import dataclass
 from pathlib import Path
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING
 
 import numpy as np
 
 from plumbrod import __version__
 from plumbrod.design.model import Design
-from plumbrod.errors import PlumbrodError, UsageError
 from plumbrod.geometry.plate_outline import PlateOutline
 from plumbrod.mechanics.analysis import Analysis
-from plumbrod.outputs.plate_profile import PlateProfile, plate_profile
+from plumbrod.outputs.dxf_common import (
+    DXF_VERSIONS,
+    TEXT_COLOUR,
+    LayerSpec,
+    check_version,
+    dxf_bytes,
+    finish,
+    line,
+    new_document,
+    profile_vertices,
+    text,
+)
+from plumbrod.outputs.dxf_plates import (
+    CUT_LAYERS,
+    PLATE_LAYERS,
+    PlatePart,
+    is_torsion_rocker,
+    plate_drawing,
+    plate_parts,
+)
+from plumbrod.outputs.plate_profile import plate_profile
 
 if TYPE_CHECKING:  # pragma: no cover
-    from collections.abc import Iterator
-
     from ezdxf.document import Drawing
     from ezdxf.layouts import Modelspace
 
@@ -63,30 +77,19 @@ __all__ = [
     "DXF_VERSIONS",
     "PLATE_LAYERS",
     "ROUTE_LAYERS",
+    "TEXT_COLOUR",
+    "DrawingSet",
     "LayerSpec",
+    "PlatePart",
     "design_drawings",
+    "drawing_set",
     "dxf_bytes",
     "export_design",
+    "is_torsion_rocker",
     "plate_drawing",
+    "plate_parts",
     "route_drawing",
 ]
-
-DXF_VERSIONS: tuple[str, ...] = ("R2010", "R2000")
-"""DXF versions we write: R2010 by default, R2000 for older cutting software."""
-
-MIN_EZDXF = (1, 4, 2)
-"""Older ezdxf releases wrote files some CAD programs refuse (see DXF notes)."""
-
-
-@dataclass(frozen=True)
-class LayerSpec:
-    """A layer: ``name``, ACI ``colour``, ``linetype`` and whether it is cut."""
-
-    name: str
-    colour: int
-    linetype: str = "Continuous"
-    cut: bool = False
-
 
 # -- route drawing layers (none of them is a cut layer) --------------------------------
 ROUTE_RODS = LayerSpec("ROUTE_RODS", 1)
@@ -98,7 +101,7 @@ SUSPENSION = LayerSpec("SUSPENSION", 8)
 TYRES = LayerSpec("TYRES", 8, "DASHED")
 ZONES = LayerSpec("ZONES", 3, "DASHED")
 HARDPOINTS = LayerSpec("HARDPOINTS", 7)
-LABELS = LayerSpec("LABELS", 250)
+LABELS = LayerSpec("LABELS", 7)
 TITLE = LayerSpec("TITLE", 7)
 ROUTE_LAYERS: tuple[LayerSpec, ...] = (
     ROUTE_RODS,
@@ -114,107 +117,12 @@ ROUTE_LAYERS: tuple[LayerSpec, ...] = (
     TITLE,
 )
 
-# -- plate drawing layers ---------------------------------------------------------------
-CUT_PROFILE = LayerSpec("CUT_PROFILE", 7, cut=True)
-CUT_HOLES = LayerSpec("CUT_HOLES", 1, cut=True)
-CENTRE_MARKS = LayerSpec("CENTRE_MARKS", 4)
-NOTES = LayerSpec("NOTES", 250)
-PLATE_LAYERS: tuple[LayerSpec, ...] = (CUT_PROFILE, CUT_HOLES, CENTRE_MARKS, NOTES, TITLE)
-CUT_LAYERS: frozenset[str] = frozenset(spec.name for spec in PLATE_LAYERS if spec.cut)
-"""Layers a cutting program should cut: the outer profile and the holes."""
+HELPER_POINTS = (".slide_top", ".slide_base", ".axis_a", ".axis_b")
+"""Points the solver adds for itself (slider guides, rocker axis ends): drawn, never
+labelled as hardpoints."""
 
-PLATE_TEXT_MM = 3.5
-"""Text height on plate drawings (ISO 3098 series: 2.5, 3.5, 5, 7 mm; common practice,
-no source)."""
 ROCKER_AXIS_OVERHANG_MM = 25.0
 """How far a drawn pivot axis reaches past the rocker's pickups along the axis."""
-_ARC_MIN_RAD = 1e-9
-
-
-# -- document set-up --------------------------------------------------------------------
-def _ezdxf() -> Any:
-    import ezdxf
-
-    found = tuple(int(p) for p in re.findall(r"\d+", ezdxf.__version__)[:3])
-    if found < MIN_EZDXF:
-        raise PlumbrodError(
-            f"ezdxf: expected version >= {'.'.join(map(str, MIN_EZDXF))}, "
-            f"got {ezdxf.__version__}; upgrade it (pip install -U ezdxf)"
-        )
-    return ezdxf
-
-
-def _check_version(dxf_version: str) -> str:
-    if dxf_version not in DXF_VERSIONS:
-        raise UsageError(
-            "dxf_version",
-            f"expected one of {', '.join(DXF_VERSIONS)}, got {dxf_version!r}",
-            "R2010 suits current CAD, R2000 older cutting software",
-        )
-    return dxf_version
-
-
-def _new_document(dxf_version: str, layers: Iterable[LayerSpec]) -> Drawing:
-    """A new mm document with the standard linetypes and styles and our layers."""
-    ezdxf = _ezdxf()
-    with _fixed_metadata():  # ezdxf stamps its creation marker here
-        doc = ezdxf.new(_check_version(dxf_version), setup=True, units=ezdxf.units.MM)
-    doc.header["$INSUNITS"] = ezdxf.units.MM
-    doc.header["$MEASUREMENT"] = 1
-    doc.header["$LUNITS"] = 2
-    doc.header["$AUNITS"] = 0
-    doc.header["$TEXTSTYLE"] = "Standard"
-    for spec in layers:
-        doc.layers.add(spec.name, color=spec.colour, linetype=spec.linetype)
-    return doc
-
-
-def _text(
-    msp: Modelspace,
-    text: str,
-    insert: Iterable[float],
-    height: float,
-    layer: str,
-    *,
-    align: str = "LEFT",
-) -> None:
-    from ezdxf.enums import TextEntityAlignment
-
-    entity = msp.add_text(text, height=height, dxfattribs={"layer": layer, "style": "Standard"})
-    entity.set_placement(tuple(float(c) for c in insert), align=TextEntityAlignment[align])
-
-
-def _finish(doc: Drawing) -> Drawing:
-    import ezdxf.zoom
-
-    ezdxf.zoom.extents(doc.modelspace())
-    return doc
-
-
-@contextmanager
-def _fixed_metadata() -> Iterator[None]:
-    """Let ezdxf write fixed dates and GUIDs (restores the option afterwards)."""
-    import ezdxf
-
-    before = ezdxf.options.write_fixed_meta_data_for_testing
-    ezdxf.options.write_fixed_meta_data_for_testing = True
-    try:
-        yield
-    finally:
-        ezdxf.options.write_fixed_meta_data_for_testing = before
-
-
-def dxf_bytes(doc: Drawing, *, fixed_metadata: bool = True) -> bytes:
-    """The document as ASCII DXF bytes in its own encoding (UTF-8 for R2010, cp1252 for
-    R2000), "\\n" line ends.  ``fixed_metadata`` writes fixed dates (2000-01-01) and GUIDs
-    instead of the time of writing, so the same drawing gives the same bytes."""
-    stream = io.StringIO()
-    if fixed_metadata:
-        with _fixed_metadata():
-            doc.write(stream)
-    else:
-        doc.write(stream)
-    return doc.encode(stream.getvalue())
 
 
 # -- small geometry helpers ---------------------------------------------------------------
@@ -243,43 +151,10 @@ def _circle_3d(
     msp.add_circle(centre_ocs, radius, dxfattribs={"layer": layer, "extrusion": extrusion})
 
 
-def _line(msp: Modelspace, a: Iterable[float], b: Iterable[float], layer: str) -> None:
-    msp.add_line(
-        tuple(float(c) for c in a), tuple(float(c) for c in b), dxfattribs={"layer": layer}
-    )
-
-
 def _polyline_3d(msp: Modelspace, points: np.ndarray, layer: str) -> None:
     msp.add_polyline3d(
         [tuple(float(c) for c in p) for p in points], close=True, dxfattribs={"layer": layer}
     )
-
-
-def _profile_vertices(profile: PlateProfile) -> list[tuple[float, float, float]]:
-    """(u, v, bulge) vertices of the closed profile: each arc's start point carries the
-    arc's bulge, each arc's end point starts the tangent line (bulge 0).  Zero-length
-    lines and zero-sweep arcs are dropped, and the first vertex is not repeated."""
-    from ezdxf.math import arc_to_bulge
-
-    raw: list[tuple[float, float, float]] = []
-    for arc in profile.arcs:
-        if arc.sweep_rad <= _ARC_MIN_RAD:
-            raw.append((*arc.start_uv, 0.0))
-            continue
-        start, end, bulge = arc_to_bulge(arc.centre_uv, arc.start_rad, arc.end_rad, arc.radius_mm)
-        raw.append((start.x, start.y, bulge))
-        raw.append((end.x, end.y, 0.0))
-    out: list[tuple[float, float, float]] = []
-    for vertex in raw:
-        # a zero-length line: the next arc starts where the last one ended
-        if out and math.dist(out[-1][:2], vertex[:2]) <= 1e-9:
-            out[-1] = (out[-1][0], out[-1][1], vertex[2] or out[-1][2])
-            continue
-        out.append(vertex)
-    if len(out) > 1 and math.dist(out[-1][:2], out[0][:2]) <= 1e-9:
-        last = out.pop()
-        out[0] = (out[0][0], out[0][1], out[0][2] or last[2])
-    return out
 
 
 # -- route drawing ---------------------------------------------------------------------------
@@ -290,10 +165,13 @@ def _label_height(points: np.ndarray) -> float:
 
 
 def _hardpoints(analysis: Analysis) -> list[tuple[np.ndarray, list[str]]]:
-    """Distinct hardpoint positions (design pose) with every name found there."""
+    """Distinct hardpoint positions (design pose) with every name found there; the
+    solver's helper points (:data:`HELPER_POINTS`) are left out."""
     link = analysis.link
     groups: list[tuple[np.ndarray, list[str]]] = []
     for name, p in zip(link.point_names, link.points[0], strict=True):
+        if name.endswith(HELPER_POINTS):
+            continue
         for position, names in groups:
             if np.array_equal(position, p):
                 names.append(name)
@@ -308,9 +186,9 @@ def _draw_rods(msp: Modelspace, design: Design, guides: set[str], height: float)
         a = np.array(design.pickups[rod.end_a].position_mm)
         b = np.array(design.pickups[rod.end_b].position_mm)
         layer = GUIDE_RODS.name if rod.name in guides else ROUTE_RODS.name
-        _line(msp, a, b, layer)
+        line(msp, a, b, layer)
         section = f"{rod.od_mm:g}" + (" bar" if rod.wall_mm is None else f"x{rod.wall_mm:g}")
-        _text(msp, f"{rod.name} {section} {rod.material}", (a + b) / 2.0, height, LABELS.name)
+        text(msp, f"{rod.name} {section} {rod.material}", (a + b) / 2.0, height, LABELS.name)
 
 
 def _draw_rockers(
@@ -326,12 +204,12 @@ def _draw_rockers(
         along = [float((p - a0) @ axis) for p in pickups] + [0.0, float((a1 - a0) @ axis)]
         lo = min(along) - ROCKER_AXIS_OVERHANG_MM
         hi = max(along) + ROCKER_AXIS_OVERHANG_MM
-        _line(msp, a0 + lo * axis, a0 + hi * axis, ROCKER_AXES.name)
-        _text(msp, f"rocker {rocker.name} axis", a0 + hi * axis, height, LABELS.name)
+        line(msp, a0 + lo * axis, a0 + hi * axis, ROCKER_AXES.name)
+        text(msp, f"rocker {rocker.name} axis", a0 + hi * axis, height, LABELS.name)
         for p in pickups:
             foot = a0 + float((p - a0) @ axis) * axis
             if np.linalg.norm(p - foot) > 1e-9:
-                _line(msp, foot, p, ROCKER_ARMS.name)
+                line(msp, foot, p, ROCKER_ARMS.name)
         outline = outlines.get(rocker.name)
         if outline is not None:
             _draw_plate_3d(msp, outline)
@@ -346,7 +224,7 @@ def _draw_plate_3d(msp: Modelspace, outline: PlateOutline) -> None:
     ocs = OCS(normal)
     vertices = []
     elevation = 0.0
-    for u, v, bulge in _profile_vertices(plate_profile(outline)):
+    for u, v, bulge in profile_vertices(plate_profile(outline)):
         p = ocs.from_wcs(tuple(float(c) for c in outline.origin + u * outline.u + v * outline.v))
         vertices.append((p.x, p.y, bulge))
         elevation = p.z
@@ -380,7 +258,7 @@ def _draw_suspension(msp: Modelspace, design: Design) -> None:
             if a == b or (a, b) in drawn or (b, a) in drawn:
                 continue  # a front-view design has one inner pivot per wishbone
             drawn.append((a, b))
-            _line(msp, a, b, SUSPENSION.name)
+            line(msp, a, b, SUSPENSION.name)
 
 
 def _draw_tyres(msp: Modelspace, analysis: Analysis, height: float) -> None:
@@ -391,12 +269,12 @@ def _draw_tyres(msp: Modelspace, analysis: Analysis, height: float) -> None:
         half, radius = corner.tyre_width_mm / 2.0, corner.tyre_radius_mm
         for side in (-1.0, 1.0):
             _circle_3d(msp, centre + side * half * spin, radius, spin, TYRES.name)
-        _line(msp, centre - half * spin, centre + half * spin, TYRES.name)
+        line(msp, centre - half * spin, centre + half * spin, TYRES.name)
         a, b = _plane_axes(spin)
         for direction in (a, b, -a, -b):
             rim = centre + radius * direction
-            _line(msp, rim - half * spin, rim + half * spin, TYRES.name)
-        _text(
+            line(msp, rim - half * spin, rim + half * spin, TYRES.name)
+        text(
             msp,
             f"tyre {corner.name} R{radius:g} W{corner.tyre_width_mm:g}",
             centre + radius * b + half * spin,
@@ -420,7 +298,7 @@ def _draw_zones(msp: Modelspace, analysis: Analysis, height: float) -> None:
             for face in faces:
                 _polyline_3d(msp, face, ZONES.name)
             for k in range(4):
-                _line(msp, faces[0][k], faces[1][k], ZONES.name)
+                line(msp, faces[0][k], faces[1][k], ZONES.name)
             centre = solid.centre
         elif isinstance(solid, Cylinder):
             axis = solid.p1 - solid.p0
@@ -429,7 +307,7 @@ def _draw_zones(msp: Modelspace, analysis: Analysis, height: float) -> None:
                 _circle_3d(msp, end, radius, axis, ZONES.name)
             a, b = _plane_axes(axis)
             for direction in (a, b, -a, -b):
-                _line(msp, solid.p0 + radius * direction, solid.p1 + radius * direction, ZONES.name)
+                line(msp, solid.p0 + radius * direction, solid.p1 + radius * direction, ZONES.name)
             centre = (solid.p0 + solid.p1) / 2.0
         else:
             assert isinstance(solid, Prism)
@@ -441,12 +319,14 @@ def _draw_zones(msp: Modelspace, analysis: Analysis, height: float) -> None:
             for end in ends:
                 _polyline_3d(msp, end, ZONES.name)
             for k in range(len(poly)):
-                _line(msp, ends[0][k], ends[1][k], ZONES.name)
+                line(msp, ends[0][k], ends[1][k], ZONES.name)
             centre = (ends[0].mean(axis=0) + ends[1].mean(axis=0)) / 2.0
-        _text(msp, f"zone {zone.name}", centre, height, LABELS.name)
+        text(msp, f"zone {zone.name}", centre, height, LABELS.name)
 
 
-def route_drawing(analysis: Analysis, *, dxf_version: str = "R2010") -> Drawing:
+def route_drawing(
+    analysis: Analysis, *, dxf_version: str = "R2010", sheet_name: str = "<design>-sheet.dxf"
+) -> Drawing:
     """The design pose as a 3D wireframe, mm, ISO 8855 axes (see the module notes).
 
     Layers: ROUTE_RODS (rods of the load routes and any other rod that is not a guide),
@@ -454,13 +334,14 @@ def route_drawing(analysis: Analysis, *, dxf_version: str = "R2010") -> Drawing:
     axis to each pickup), ROCKER_PLATES, SUSPENSION (wishbone arms, upright, tie rod),
     TYRES (envelope cylinders: two circles and five lines each), ZONES (keep-out solids),
     HARDPOINTS (one POINT per distinct position), LABELS (TEXT), TITLE (one MTEXT with
-    the design name, "units: mm", the axes and the generator).  Rod LINE ends are the
-    design hardpoints exactly.
+    the design name, "units: mm", the axes, the generator and a pointer to the 2D sheet
+    ``sheet_name``).  Rod LINE ends are the design hardpoints exactly.  Text layers are
+    ACI 7 (:data:`TEXT_COLOUR`).
     """
     from plumbrod.mechanics.plates import rocker_outlines
 
     design, link = analysis.design, analysis.link
-    doc = _new_document(dxf_version, ROUTE_LAYERS)
+    doc = new_document(dxf_version, ROUTE_LAYERS)
     msp = doc.modelspace()
     height = _label_height(link.points[0])
     doc.header["$PDMODE"] = 34  # circle with a cross: visible at any zoom
@@ -473,7 +354,7 @@ def route_drawing(analysis: Analysis, *, dxf_version: str = "R2010") -> Drawing:
     _draw_zones(msp, analysis, height)
     for position, names in _hardpoints(analysis):
         msp.add_point(tuple(float(c) for c in position), dxfattribs={"layer": HARDPOINTS.name})
-        _text(
+        text(
             msp,
             " / ".join(names),
             position + np.array([height, 0.0, height]),
@@ -490,6 +371,8 @@ def route_drawing(analysis: Analysis, *, dxf_version: str = "R2010") -> Drawing:
         design.name,
         "hardpoints at the design pose (static ride height, wheels on the ground); units: mm",
         "axes ISO 8855: x forward, y left, z up; origin as in the design file",
+        f"3D wireframe for 3D CAD; for 2D CAD open {sheet_name} (front, side, top and "
+        "isometric views, swept envelopes, hardpoint table)",
         f"generated by plumbrod {__version__} from {source}; layout geometry only: "
         "fits, clearances and strength need a qualified engineer's check",
     ]
@@ -505,90 +388,7 @@ def route_drawing(analysis: Analysis, *, dxf_version: str = "R2010") -> Drawing:
             "attachment_point": 1,  # top left
         },
     )
-    return _finish(doc)
-
-
-# -- plate drawing ---------------------------------------------------------------------
-def plate_drawing(
-    outline: PlateOutline,
-    name: str,
-    *,
-    material: str = "not given",
-    design_name: str = "",
-    dxf_version: str = "R2010",
-) -> Drawing:
-    """One rocker plate, flat and 1:1, in its (u, v) frame (mm), for cutting.
-
-    CUT_PROFILE: one closed LWPOLYLINE, the exact hull of the boss circles (tangent
-    lines and true arcs as bulges).  CUT_HOLES: one CIRCLE per hole (diameter as
-    designed).  CENTRE_MARKS: a cross in every hole.
-    NOTES: hole names and diameters ("pivot d12").  TITLE: rocker, material, thickness,
-    "units: mm", cut length, area, frame, caution.
-    """
-    doc = _new_document(dxf_version, PLATE_LAYERS)
-    msp = doc.modelspace()
-    profile = plate_profile(outline)
-    vertices = _profile_vertices(profile)
-    msp.add_lwpolyline(vertices, format="xyb", close=True, dxfattribs={"layer": CUT_PROFILE.name})
-    middle = np.mean([h.centre_uv for h in outline.holes], axis=0)
-    for hole in outline.holes:
-        r = hole.diameter_mm / 2.0
-        cu, cv = hole.centre_uv
-        msp.add_circle((cu, cv), r, dxfattribs={"layer": CUT_HOLES.name})
-        arm = 0.6 * r
-        _line(msp, (cu - arm, cv), (cu + arm, cv), CENTRE_MARKS.name)
-        _line(msp, (cu, cv - arm), (cu, cv + arm), CENTRE_MARKS.name)
-        # the label beside the hole, towards the middle of the plate (away from the edge)
-        inward = middle - np.array(hole.centre_uv)
-        size = float(np.linalg.norm(inward))
-        inward = inward / size if size > 1e-9 else np.array([0.0, 1.0])
-        if abs(inward[0]) >= abs(inward[1]):
-            align = "MIDDLE_LEFT" if inward[0] > 0 else "MIDDLE_RIGHT"
-        else:
-            align = "BOTTOM_CENTER" if inward[1] > 0 else "TOP_CENTER"
-        anchor = np.array(hole.centre_uv) + inward * (r + 0.5 * PLATE_TEXT_MM)
-        _text(
-            msp,
-            f"{hole.name} d{hole.diameter_mm:g}",
-            anchor,
-            PLATE_TEXT_MM * 0.8,
-            NOTES.name,
-            align=align,
-        )
-
-    pts = profile.sample_uv(0.1)
-    lo = pts.min(axis=0)
-    holes_area = sum(math.pi * h.diameter_mm**2 / 4.0 for h in outline.holes)
-    first = next((h.name for h in outline.holes if h.name != "pivot"), "pivot")
-    lines = [
-        f"rocker {name} plate" + (f" - {design_name}" if design_name else ""),
-        f"material {material}, thickness {outline.thickness_mm:g} mm; units: mm, scale 1:1",
-        f"cut: outer profile (layer {CUT_PROFILE.name}, length {profile.length_mm:.1f} mm), "
-        f"{len(outline.holes)} holes (layer {CUT_HOLES.name}); net area "
-        f"{profile.area_mm2 - holes_area:.0f} mm2",
-        f"frame: origin on the pivot axis, u towards '{first}', v = axis x u "
-        "(seen from the axis end)",
-    ]
-    for hole in outline.holes:
-        if abs(hole.axial_offset_mm) > 0.05:
-            lines.append(
-                f"pickup '{hole.name}' sits {hole.axial_offset_mm:+.1f} mm off the "
-                "plate plane along the axis: spacer"
-            )
-    lines.append(
-        f"generated by plumbrod {__version__}; check webs, fits, edge distances and "
-        "strength with a qualified engineer before cutting"
-    )
-    h = PLATE_TEXT_MM
-    for k, line in enumerate(lines):
-        _text(
-            msp,
-            line,
-            (lo[0], lo[1] - 3.0 * h - 1.7 * h * k),
-            h * (1.4 if k == 0 else 1.0),
-            TITLE.name,
-        )
-    return _finish(doc)
+    return finish(doc)
 
 
 # -- files --------------------------------------------------------------------------------
@@ -600,28 +400,50 @@ def _stem(design: Design) -> str:
     return stem
 
 
+@dataclass(frozen=True)
+class DrawingSet:
+    """Every drawing of a design by file name, and notes about what was not drawn."""
+
+    drawings: dict[str, Drawing]
+    notes: tuple[str, ...]
+
+
+def drawing_set(
+    analysis: Analysis,
+    *,
+    dxf_version: str = "R2010",
+    stem: str | None = None,
+    cut_only: bool = False,
+    sheet: bool = True,
+) -> DrawingSet:
+    """``<stem>-route.dxf``, ``<stem>-sheet.dxf`` (when ``sheet``) and one
+    ``<stem>-plate-<rocker>.dxf`` per flat rocker plate; a torsion rocker gets a note
+    instead of a plate file.  ``stem`` defaults to the design file's name."""
+    check_version(dxf_version)
+    design = analysis.design
+    base = stem or _stem(design)
+    out = {
+        f"{base}-route.dxf": route_drawing(
+            analysis, dxf_version=dxf_version, sheet_name=f"{base}-sheet.dxf"
+        )
+    }
+    if sheet:
+        from plumbrod.outputs.dxf_sheet import sheet_drawing
+
+        out[f"{base}-sheet.dxf"] = sheet_drawing(analysis, dxf_version=dxf_version)
+    parts, notes = plate_parts(design)
+    for part in parts:
+        out[f"{base}-plate-{part.name}.dxf"] = plate_drawing(
+            part, design_name=design.name, dxf_version=dxf_version, cut_only=cut_only
+        )
+    return DrawingSet(out, tuple(notes))
+
+
 def design_drawings(
     analysis: Analysis, *, dxf_version: str = "R2010", stem: str | None = None
 ) -> dict[str, Drawing]:
-    """Every drawing of a design by file name: ``<stem>-route.dxf`` and one
-    ``<stem>-plate-<rocker>.dxf`` per rocker with plate data.  ``stem`` defaults to the
-    design file's name without its suffix."""
-    from plumbrod.mechanics.plates import rocker_outlines
-
-    _check_version(dxf_version)
-    design = analysis.design
-    base = stem or _stem(design)
-    out = {f"{base}-route.dxf": route_drawing(analysis, dxf_version=dxf_version)}
-    materials = {r.name: r.plate.material for r in design.rockers if r.plate is not None}
-    for rocker, outline in rocker_outlines(design).items():
-        out[f"{base}-plate-{rocker}.dxf"] = plate_drawing(
-            outline,
-            rocker,
-            material=materials[rocker],
-            design_name=design.name,
-            dxf_version=dxf_version,
-        )
-    return out
+    """Every drawing of a design by file name (see :func:`drawing_set`)."""
+    return drawing_set(analysis, dxf_version=dxf_version, stem=stem).drawings
 
 
 def export_design(

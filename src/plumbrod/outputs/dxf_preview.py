@@ -83,7 +83,7 @@ def preview_png(
     from matplotlib.backends.backend_agg import FigureCanvasAgg
     from matplotlib.figure import Figure
 
-    from plumbrod.outputs.dxf_export import dxf_bytes
+    from plumbrod.outputs.dxf_common import dxf_bytes
 
     matrix = view_matrix(view)
     text = dxf_bytes(doc).decode(doc.output_encoding, errors="replace")

@@ -1,221 +1,113 @@
-"""Plots of an analysis as PNG files (matplotlib, imported here only).
+"""The figures of an analysis as PNG and SVG files (matplotlib, imported lazily).
 
-Two figures per design:
+One idea per figure, each title led by its check's PASS / WARN / FAIL:
 
-* ``<stem>-kinematics.png``: route ratio through the wheel travel with its limit band;
-  the element's ride-height change through body heave, roll and pitch beside the same
-  element bolted to the chassis; line of action of the route rods; transmission angles.
-* ``<stem>-forces.png``: every rod's force through the wheel travel per load case, with
-  each compression rod's critical load divided by the required reserve.
+* ``<stem>-route-ratio``: route ratio through the wheel travel with its allowed band;
+* ``<stem>-ride-height``: ride-height sensitivity to heave (mm/mm), roll and pitch
+  (mm/deg), each on its own axes, routed beside bolted, the heave limit as a band;
+* ``<stem>-line-of-action``: angle from vertical of every route rod over every sweep, the
+  check's worst pose marked;
+* ``<stem>-transmission``: transmission angles through the travel with their band;
+* ``<stem>-reserves``: every rod's reserve factor through the travel per load case, with
+  the required reserves;
+* ``<stem>-clearance``: least distance of the closest pairs through the travel, with
+  their limits;
+* ``<stem>-spring-share``: each axle's spring-load change as a share of each element's
+  load through the travel per load case, routed beside bolted, with the floor.
 
-Plot functions take an ``ax`` and return what they drew, so they can be reused.
+Left and right members share a colour; the right one is dashed.
 """
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from pathlib import Path
-from typing import TYPE_CHECKING, Any
-
-import numpy as np
+from typing import TYPE_CHECKING
 
 from plumbrod.verdict.findings import Findings
 
-if TYPE_CHECKING:
-    from matplotlib.axes import Axes
+if TYPE_CHECKING:  # pragma: no cover
+    from matplotlib.figure import Figure
 
     from plumbrod.outputs.atomic import OutputSet
 
-__all__ = ["plot_findings"]
+__all__ = ["FIGURES", "figure_files", "figures", "plot_findings"]
 
-_LIMIT_STYLE: dict[str, Any] = {"color": "0.35", "linestyle": "--", "linewidth": 1.0}
-
-
-def _travel(findings: Findings) -> tuple[Any, Any] | None:
-    analysis = findings.analysis
-    if "travel" not in analysis.sweeps:
-        return None
-    return analysis.sweeps["travel"].spec.values["travel_mm"], analysis.figures["travel"]
-
-
-def plot_route_ratio(findings: Findings, ax: Axes) -> list[Any]:
-    """Route ratio of every route through the travel sweep, with the limit band."""
-    lo, hi = findings.analysis.design.limits.route_ratio
-    drawn: list[Any] = []
-    data = _travel(findings)
-    if data is None:
-        ax.text(0.5, 0.5, "no travel sweep", ha="center", transform=ax.transAxes)
-        return drawn
-    travel, fig = data
-    drawn.append(ax.axhspan(lo, hi, color="0.9", zorder=0, label=f"limit {lo:g} to {hi:g}"))
-    for route, ratio in fig.route_ratio.items():
-        drawn += ax.plot(travel, ratio, label=route)
-    _label_travel_axes(ax, "route ratio, mm/mm", "Route ratio")
-    ax.legend(fontsize="small")
-    return drawn
+FIGURES: tuple[str, ...] = (
+    "route-ratio",
+    "ride-height",
+    "line-of-action",
+    "transmission",
+    "reserves",
+    "clearance",
+    "spring-share",
+)
+"""Figure names in the order reports show them."""
 
 
-def plot_ride_height(findings: Findings, ax: Axes) -> list[Any]:
-    """Ride-height change of each element through heave, roll and pitch vs bolted."""
-    analysis = findings.analysis
-    drawn: list[Any] = []
-    for sweep, unit in (("heave", "mm"), ("roll", "deg"), ("pitch", "deg")):
-        if sweep not in analysis.figures:
-            continue
-        x = analysis.sweeps[sweep].spec.values[f"{sweep}_{unit}"]
-        scale = np.max(np.abs(x)) or 1.0
-        for element, rh in analysis.figures[sweep].ride_height.items():
-            mid = len(x) // 2
-            line = ax.plot(
-                x / scale,
-                rh.height_mm - rh.height_mm[mid],
-                label=f"{element}, {sweep} (±{scale:g} {unit})",
-            )
-            drawn += line
-            drawn += ax.plot(
-                x / scale,
-                rh.bolted_height_mm - rh.bolted_height_mm[mid],
-                color=line[0].get_color(),
-                linestyle=":",
-                linewidth=1.0,
-            )
-    ax.set_xlabel("body motion, fraction of its sweep range")
-    ax.set_ylabel("ride-height change, mm")
-    ax.set_title("Element ride height (dotted: bolted to the chassis)")
-    if drawn:
-        ax.legend(fontsize="small")
-    return drawn
-
-
-def _label_travel_axes(ax: Axes, ylabel: str, title: str) -> None:
-    ax.set_xlabel("wheel travel, mm (+ bump)")
-    ax.set_ylabel(ylabel)
-    ax.set_title(title)
-
-
-def plot_line_of_action(findings: Findings, ax: Axes) -> list[Any]:
-    analysis = findings.analysis
-    drawn: list[Any] = []
-    data = _travel(findings)
-    if data is None:
-        return drawn
-    travel, fig = data
-    for rod, angle in fig.line_of_action_deg.items():
-        drawn += ax.plot(travel, angle, label=rod)
-    limit = analysis.design.limits.line_of_action_deg
-    drawn.append(ax.axhline(limit, **_LIMIT_STYLE, label=f"limit {limit:g}°"))
-    _label_travel_axes(ax, "angle from vertical, deg", "Line of action of route rods")
-    ax.set_ylim(bottom=0.0)
-    ax.legend(fontsize="small")
-    return drawn
-
-
-def plot_transmission(findings: Findings, ax: Axes) -> list[Any]:
-    analysis = findings.analysis
-    drawn: list[Any] = []
-    data = _travel(findings)
-    if data is None:
-        return drawn
-    travel, fig = data
-    for j, (rod, body) in enumerate(fig.transmission_labels):
-        drawn += ax.plot(travel, fig.transmission_deg[:, j], label=f"{rod} at {body}")
-    lo, hi = analysis.design.limits.transmission_angle_deg
-    drawn.append(ax.axhline(lo, **_LIMIT_STYLE, label=f"limits {lo:g}° and {hi:g}°"))
-    drawn.append(ax.axhline(hi, **_LIMIT_STYLE))
-    ax.set_ylim(0.0, 180.0)
-    _label_travel_axes(ax, "transmission angle, deg", "Transmission angles")
-    if fig.transmission_labels:
-        ax.legend(fontsize="x-small")
-    else:
-        ax.text(
-            0.5, 0.5, "no rod ends on rockers or wishbones", ha="center", transform=ax.transAxes
-        )
-    return drawn
-
-
-def plot_forces(findings: Findings, ax: Axes, case: int) -> list[Any]:
-    """Every design rod's force through the travel sweep for one load case."""
-    analysis = findings.analysis
-    drawn: list[Any] = []
-    st = analysis.statics.get("travel")
-    if st is None:
-        ax.text(0.5, 0.5, "no load case or no travel sweep", ha="center", transform=ax.transAxes)
-        return drawn
-    travel = analysis.sweeps["travel"].spec.values["travel_mm"]
-    required = analysis.design.limits.buckling_reserve
-    index = [analysis.link.rod_names.index(rod.name) for rod in analysis.design.rods]
-    forces = analysis.rod_force_N("travel")[:, case][:, index]  # fight forces included
-    low, high = min(float(forces.min()), 0.0), max(float(forces.max()), 0.0)
-    span = max(high - low, 1.0)
-    bottom = low - 0.6 * span  # room for a capacity line that comes close
-    shown = 0
-    for j, rod in enumerate(analysis.design.rods):
-        line = ax.plot(travel, forces[:, j], label=rod.name)
-        drawn += line
-        reserve = findings.reserves[rod.name]
-        limit = -reserve.critical_load_N / required
-        if reserve.compression is not None and limit > bottom:
-            drawn.append(ax.axhline(limit, color=line[0].get_color(), linestyle=":", linewidth=1.2))
-            shown += 1
-    ax.axhline(0.0, color="0.6", linewidth=0.8)
-    ax.set_ylim(bottom, high + 0.15 * span)
-    note = (
-        f"dotted: -P_cr/{required:g} of the rods near it"
-        if shown
-        else f"every compression rod's -P_cr/{required:g} lies below this range"
+def _builders() -> dict[str, Callable[[Findings], Figure]]:
+    from plumbrod.outputs.figures_kinematics import (
+        line_of_action_figure,
+        ride_height_figure,
+        route_ratio_figure,
+        transmission_figure,
     )
-    _label_travel_axes(
-        ax, "rod force, N (+ tension)", f"Rod forces, load case '{st.cases[case]}' ({note})"
+    from plumbrod.outputs.figures_structure import (
+        clearance_figure,
+        reserve_figure,
+        spring_share_figure,
     )
-    ax.legend(fontsize="x-small", ncol=2)
-    return drawn
+
+    return {
+        "route-ratio": route_ratio_figure,
+        "ride-height": ride_height_figure,
+        "line-of-action": line_of_action_figure,
+        "transmission": transmission_figure,
+        "reserves": reserve_figure,
+        "clearance": clearance_figure,
+        "spring-share": spring_share_figure,
+    }
+
+
+def figures(findings: Findings) -> dict[str, Figure]:
+    """Every figure by name (see :data:`FIGURES`), with the design's name above it."""
+    builders = _builders()
+    out = {}
+    for name in FIGURES:
+        figure = builders[name](findings)
+        design = findings.analysis.design.name
+        above = figure.get_suptitle()
+        figure.suptitle(f"{design}\n{above}" if above else design, fontsize="medium")
+        out[name] = figure
+    return out
+
+
+def figure_files(
+    findings: Findings, stem: str, formats: tuple[str, ...] = ("png", "svg")
+) -> dict[str, bytes]:
+    """Every figure as file bytes by file name (``<stem>-<figure>.<format>``)."""
+    from plumbrod.outputs.figure_style import figure_bytes
+
+    out: dict[str, bytes] = {}
+    for name, figure in figures(findings).items():
+        for fmt in formats:
+            out[f"{stem}-{name}.{fmt}"] = figure_bytes(figure, fmt, salt=f"plumbrod-{name}")
+    return out
 
 
 def plot_findings(
     findings: Findings, folder: str | Path, stem: str, *, into: OutputSet | None = None
 ) -> list[Path]:
-    """Write the kinematics and forces figures as PNG files; returns their paths.
+    """Write every figure as PNG and SVG into ``folder``; returns the paths.
 
     With ``into`` the files join that :class:`~plumbrod.outputs.atomic.OutputSet` (the
     caller commits it); without, they are written together or not at all."""
-    from matplotlib.backends.backend_agg import FigureCanvasAgg
-    from matplotlib.figure import Figure
-
     from plumbrod.outputs.atomic import OutputSet
 
     if into is None:
         with OutputSet(option="--output-dir") as own:
             plot_findings(findings, folder, stem, into=own)
         return own.written
-
     folder = Path(folder)
-    written: list[Path] = []
-    name = findings.analysis.design.name
-
-    figure = Figure(figsize=(12, 9), layout="constrained")
-    FigureCanvasAgg(figure)
-    axes = figure.subplots(2, 2)
-    plot_route_ratio(findings, axes[0, 0])
-    plot_ride_height(findings, axes[0, 1])
-    plot_line_of_action(findings, axes[1, 0])
-    plot_transmission(findings, axes[1, 1])
-    figure.suptitle(f"{name}: kinematics")
-    written.append(
-        into.add_with(
-            folder / f"{stem}-kinematics.png",
-            lambda tmp: figure.savefig(tmp, format="png", dpi=110),
-        )
-    )
-
-    cases = len(findings.analysis.loads.cases) if findings.analysis.loads else 1
-    forces = Figure(figsize=(12, 4.5 * cases), layout="constrained")
-    FigureCanvasAgg(forces)
-    axes = np.atleast_1d(forces.subplots(cases, 1))
-    for k, ax in enumerate(axes):
-        plot_forces(findings, ax, k)
-    forces.suptitle(f"{name}: forces")
-    written.append(
-        into.add_with(
-            folder / f"{stem}-forces.png", lambda tmp: forces.savefig(tmp, format="png", dpi=110)
-        )
-    )
-    return written
+    files = figure_files(findings, stem)
+    return [into.add(folder / name, data) for name, data in files.items()]

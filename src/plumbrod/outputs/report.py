@@ -23,7 +23,7 @@ from plumbrod.outputs.springs_report import springs_json, springs_lines
 from plumbrod.verdict.checks import CheckResult
 from plumbrod.verdict.findings import Findings
 
-__all__ = ["as_json", "as_text", "verdict"]
+__all__ = ["as_json", "as_text", "verdict", "verdict_line"]
 
 _SIGNIFICANT = 6
 CLOSEST_SHOWN = 5
@@ -34,6 +34,17 @@ def verdict(checks: Sequence[CheckResult]) -> str:
     """``fail`` if any check fails, else ``warn`` if any warns, else ``pass``."""
     statuses = {c.status for c in checks}
     return "fail" if "fail" in statuses else "warn" if "warn" in statuses else "pass"
+
+
+def verdict_line(checks: Sequence[CheckResult]) -> str:
+    """One line: ``verdict: FAIL (7 pass, 1 warn, 2 fail)``, and the failing check ids."""
+    counts = {s: sum(c.status == s for c in checks) for s in ("pass", "warn", "fail")}
+    line = (
+        f"verdict: {verdict(checks).upper()} ({counts['pass']} pass, {counts['warn']} warn, "
+        f"{counts['fail']} fail)"
+    )
+    failed = [c.id for c in checks if c.status == "fail"]
+    return line + (f"; failed: {', '.join(failed)}" if failed else "")
 
 
 def _series(values: NDArray[np.float64]) -> list[float]:
