@@ -220,7 +220,7 @@ def judge(code: int | None, stdout: str, stderr: str) -> Outcome:
             o.problem, o.detail = "bad exit", f"exit 2 with {len(lines)} lines: {stderr[:500]}"
         return o
     if not stdout:
-        if code == 1 and len(lines) == 1 and lines[0].startswith("plumbrod: fail:"):
+        if code == 1 and len(lines) == 1 and lines[0].startswith("plumbrod: fail ("):
             return o
         o.problem, o.detail = "bad exit", f"exit {code} without JSON: {stderr[:500]}"
         return o

