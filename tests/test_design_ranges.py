@@ -69,6 +69,13 @@ CASES: dict[str, tuple[str, str, str, str, str]] = {
         "design.top_speed_kmh",
         "more than 0 and at most 500 km/h",
     ),
+    "400-digit integer in an open table": (
+        (ROOT / "student_rear_wing.toml").read_text(encoding="utf-8"),
+        "corner_sprung_mass_rear_kg = 62.0",
+        f"corner_sprung_mass_rear_kg = {DIGITS_400}",
+        "tradeoff.corner_sprung_mass_rear_kg",
+        "a 400-digit number",
+    ),
     "steps 1e30": (
         SPLITTER,
         "steps = 201",

@@ -178,6 +178,12 @@ class Reader:
                 f"expected {range_text(spec)}, got {number_text(value)}",
                 range_fix(spec),
             )
+        if isinstance(value, int) and abs(value) > 10**300:
+            self.fail(
+                key,
+                f"expected a number of a physical size, got {number_text(value)}",
+                "write a value in the file's units (mm, N, kg, s, degrees)",
+            )
         return float(value)
 
     def integer(self, value: Any, key: str, *, minimum: int = 1, spec: Key | None = None) -> int:
