@@ -142,8 +142,9 @@ def projection_range(part: Part, e: np.ndarray) -> tuple[np.ndarray, np.ndarray]
     c0, axis, length, radius = arr
     mid = kern._dot(c0, e)
     along = length * kern._dot(axis, e)
-    ea = kern._dot(e, axis)
-    rim = radius * np.sqrt(np.maximum(kern._dot(e, e) - ea * ea, 0.0))
+    perp = e - kern._dot(e, axis)[..., None] * axis
+    perp = perp - kern._dot(perp, axis)[..., None] * axis  # no cancellation near ±axis
+    rim = radius * kern._norm(perp)
     return mid + np.maximum(along, 0.0) + rim, mid + np.minimum(along, 0.0) - rim
 
 
