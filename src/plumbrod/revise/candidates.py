@@ -281,6 +281,8 @@ class _Part:
 
 
 def _subset(grid: GridSolution, designs: NDArray[np.intp]) -> GridSolution:
+    if designs.size == grid.designs:  # every candidate assembled: nothing to copy
+        return grid
     p = grid.poses
     rows = (designs[:, None] * p + np.arange(p)[None, :]).ravel()
     return GridSolution(
