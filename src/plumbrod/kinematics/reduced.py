@@ -399,15 +399,13 @@ def _solve_block(
 
     rows = BlockRows(block, sub_pts, carriers.rotation, carriers.centre)
     guess = np.einsum("gup,kp->gku", tan0, params).reshape(n, -1)
-    state = rows.advance(rows.design_state(), guess)
-    state, res, jac, norm = newton(rows, state, TOL_MM, MAX_ITERATIONS)
+    state = rows.advance(rows.design_state(), guess.T)
+    state, res, jac, jac_c, norm = newton(rows, state, TOL_MM, MAX_ITERATIONS)
     good = (norm <= 1e-8) & np.all(np.isfinite(res), axis=1)
     sign = np.linalg.slogdet(np.where(good[:, None, None], jac, 0.0))[0]
     good &= sign == np.repeat(sign0, p)
     assembled = good.reshape(g, p).all(axis=1) & ok
     every = np.repeat(assembled, p)
-    _, _, jac_c, _ = rows.evaluate(state, carriers=True)
-    assert jac_c is not None
     safe = np.where(every[:, None, None], jac, _identity_like(jac))
     rate = np.tile(carriers.rate, (g, 1, 1))
     jac_c = np.where(every[:, None, None], jac_c, 0.0)

@@ -29,7 +29,7 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from plumbrod.kinematics.frames import Array, Pose, cross, rotation_vector_matrix, skew
+from plumbrod.kinematics.frames import Array, Pose, cross, skew
 from plumbrod.kinematics.linkage import FREE, HINGE, Kinematics, Linkage
 
 __all__ = ["BlockState", "RouteBlock", "route_block"]
@@ -56,24 +56,26 @@ class RouteBlock:
     fixed_ends: NDArray[np.intp]  # ends on the chassis
     n_unknown: int
     n_carrier_cols: int
+    selection: NDArray[np.intp]  # (k,) which of [dc, dtheta] each free coordinate is
 
 
 @dataclass(frozen=True)
 class BlockState:
-    """Route-block pose of a batch of rows: rocker angles and element poses."""
+    """Route-block pose of a batch of rows, rows on the last axis (structure of arrays:
+    numpy's inner loops then run along the long axis)."""
 
-    angle: Array  # (n, rockers) rad
-    rotation: Array  # (n, elements, 3, 3)
-    centre: Array  # (n, elements, 3) reference points, mm
+    angle: Array  # (rockers, n) rad
+    rotation: Array  # (3, 3, elements, n)
+    centre: Array  # (3, elements, n) reference points, mm
 
     def take(self, rows: NDArray[np.intp]) -> BlockState:
-        return BlockState(self.angle[rows], self.rotation[rows], self.centre[rows])
+        return BlockState(self.angle[:, rows], self.rotation[..., rows], self.centre[..., rows])
 
     def put(self, rows: NDArray[np.intp], other: BlockState) -> None:
         """Overwrite ``rows`` with ``other`` (in place)."""
-        self.angle[rows] = other.angle
-        self.rotation[rows] = other.rotation
-        self.centre[rows] = other.centre
+        self.angle[:, rows] = other.angle
+        self.rotation[..., rows] = other.rotation
+        self.centre[..., rows] = other.centre
 
 
 def route_block(
@@ -134,6 +136,10 @@ def route_block(
         return None
     if len(unknown) != len(rockers) + k * len(elements) or len(unknown) != len(route.rod_names):
         return None
+    basis = route.free_basis
+    selection = np.argmax(basis, axis=0)
+    if not np.array_equal(basis, np.eye(6)[:, selection]):
+        return None  # the free coordinates are not a plain selection of [dc, dtheta]
 
     def ix(values: list[int] | list[list[int]], width: int = 0) -> NDArray[np.intp]:
         out = np.array(values, dtype=np.intp)
@@ -157,6 +163,7 @@ def route_block(
         fixed_ends=ix(groups["fixed"]),
         n_unknown=len(unknown),
         n_carrier_cols=len(carrier_cols),
+        selection=selection.astype(np.intp),
     )
 
 
@@ -165,8 +172,9 @@ class BlockRows:
 
     ``points`` (G, np, 3) are the route linkage's design points of each candidate;
     ``carrier_rotation`` / ``carrier_centre`` (P, nc, 3, 3) / (P, nc, 3) the carriers'
-    prescribed poses at each of the P poses.  Methods take ``rows``, an index array
-    into the n rows, so converged rows drop out of the iteration.
+    prescribed poses at each of the P poses.  Inside, arrays keep the rows on the last
+    axis; :meth:`evaluate` takes ``rows`` (an index array, None for all) so converged
+    rows drop out of the iteration, and returns row-first arrays.
     """
 
     def __init__(
@@ -182,118 +190,127 @@ class BlockRows:
         self.n = n = g * p
         p0 = points[:, b.end_point]  # (G, 2m, 3)
         d0 = p0[:, 0::2] - p0[:, 1::2]
-        self.length = np.repeat(np.linalg.norm(d0, axis=-1), p, axis=0)  # (n, m)
+        self.length = _rows_last(np.linalg.norm(d0, axis=-1), p)  # (m, n)
         # ends that never move in the iteration: on the chassis and on the carriers
-        static = np.empty((n, b.end_point.size, 3))
+        static = np.zeros((n, b.end_point.size, 3))
         static[:, b.fixed_ends] = np.repeat(p0[:, b.fixed_ends], p, axis=0)
-        self.carrier_lever = np.zeros((n, b.carrier_ends.size, 3))
+        lever = np.zeros((n, b.carrier_ends.size, 3))
         if b.carrier_ends.size:
             rot = carrier_rotation[:, b.carrier_of_end]  # (P, ce, 3, 3)
             cen = carrier_centre[:, b.carrier_of_end]
             local = p0[:, b.carrier_ends]  # (G, ce, 3), carrier reference at the origin
             lever = np.einsum("pcij,gcj->gpci", rot, local).reshape(n, -1, 3)
             static[:, b.carrier_ends] = lever + np.tile(cen, (g, 1, 1))
-            self.carrier_lever = lever  # end minus the carrier's reference point
-        self.static = static
+        self.static = _rows_last(static)  # (3, 2m, n)
+        self.carrier_lever = _rows_last(lever)  # (3, ce, n) end minus carrier reference
         a = points[:, route.axis_points[b.rockers, 0]]  # (G, nr, 3) rocker axes
         u = points[:, route.axis_points[b.rockers, 1]] - a
         u = u / np.linalg.norm(u, axis=-1, keepdims=True)
-        self.axis = np.repeat(u, p, axis=0)  # (n, nr, 3)
+        self.axis = np.repeat(u, p, axis=0)  # (n, nr, 3), row-first for the kinematics
         self.axis_origin = np.repeat(a, p, axis=0)
         # an end at v from its rocker's axis turns to c v + s (u x v) + (1 - c)(u.v) u
         ue = u[:, b.rocker_of_end]
         v = p0[:, b.rocker_ends] - a[:, b.rocker_of_end]
-        w = cross(ue, v)
         along = np.sum(ue * v, axis=-1, keepdims=True) * ue
-        self.rocker_terms = np.repeat(np.stack((v - along, w, along), axis=2), p, axis=0)
-        """(n, re, 3, 3): the parts of each rocker end turning with cos, with sin, fixed."""
-        self.rocker_base = np.repeat(a[:, b.rocker_of_end], p, axis=0)  # (n, re, 3)
+        self.rocker_cos = _rows_last(v - along, p)  # (3, re, n)
+        self.rocker_sin = _rows_last(cross(ue, v), p)
+        self.rocker_fixed = _rows_last(a[:, b.rocker_of_end] + along, p)
         refs = points[:, route.reference[b.elements]]  # (G, ne, 3)
-        self.refs = np.repeat(refs, p, axis=0)
-        self.free_local = np.repeat(
-            p0[:, b.free_ends] - refs[:, b.element_of_end], p, axis=0
-        )  # (n, fe, 3) relative to the element's reference point
+        self.refs = np.repeat(refs, p, axis=0)  # (n, ne, 3)
+        self.free_local = _rows_last(p0[:, b.free_ends] - refs[:, b.element_of_end], p)
         self.basis = route.free_basis  # (6, k)
+        m = len(route.rod_names)
+        self.end_rod = np.arange(m).repeat(2)
+        self.end_sign = np.tile([1.0, -1.0], m)[:, None]
 
     # -- state ------------------------------------------------------------------------
     def design_state(self) -> BlockState:
         """Every row at the design pose."""
         b = self.block
+        ne = b.elements.size
+        eye = np.eye(3)[:, :, None, None]
         return BlockState(
-            np.zeros((self.n, b.rockers.size)),
-            np.broadcast_to(np.eye(3), (self.n, b.elements.size, 3, 3)).copy(),
-            self.refs.copy(),
+            np.zeros((b.rockers.size, self.n)),
+            np.broadcast_to(eye, (3, 3, ne, self.n)).copy(),
+            _rows_last(self.refs),
         )
 
     def advance(self, state: BlockState, step: Array) -> BlockState:
-        """``state`` moved by unknown-coordinate increments ``step`` (n', nu)."""
+        """``state`` moved by unknown-coordinate increments ``step`` (nu, n')."""
         b = self.block
-        angle = state.angle + step[:, b.rocker_cols]
+        angle = state.angle + step[b.rocker_cols]
         if not b.elements.size:
             return BlockState(angle, state.rotation, state.centre)
-        inc = step[:, b.element_cols] @ self.basis.T  # (n', ne, 6)
-        rotation = rotation_vector_matrix(inc[..., 3:6]) @ state.rotation
-        return BlockState(angle, rotation, state.centre + inc[..., 0:3])
+        inc = np.zeros((6, b.elements.size, step.shape[1]))
+        inc[b.selection] = np.swapaxes(step[b.element_cols], 0, 1)  # (k, ne, n')
+        turn = _rotation_matrix(inc[3:6])
+        rotation = np.einsum("ij...,jk...->ik...", turn, state.rotation)
+        return BlockState(angle, rotation, state.centre + inc[0:3])
 
     def ends(self, state: BlockState, rows: NDArray[np.intp] | None = None) -> Array:
-        """Positions (n', 2m, 3) of every rod end, mm (``rows`` None: every row)."""
+        """Positions (3, 2m, n') of every rod end, mm (``rows`` None: every row)."""
         b = self.block
-        out = (self.static if rows is None else self.static[rows]).copy()
+        pick = _picker(rows)
+        out = pick(self.static).copy()
         if b.rockers.size:
-            terms = self.rocker_terms if rows is None else self.rocker_terms[rows]
-            base = self.rocker_base if rows is None else self.rocker_base[rows]
-            ang = state.angle[:, b.rocker_of_end, None]
+            ang = state.angle[b.rocker_of_end]  # (re, n')
             out[:, b.rocker_ends] = (
-                base + np.cos(ang) * terms[:, :, 0] + np.sin(ang) * terms[:, :, 1] + terms[:, :, 2]
+                pick(self.rocker_fixed)
+                + np.cos(ang) * pick(self.rocker_cos)
+                + np.sin(ang) * pick(self.rocker_sin)
             )
         if b.elements.size:
-            local = self.free_local if rows is None else self.free_local[rows]
+            rot = state.rotation[:, :, b.element_of_end]  # (3, 3, fe, n')
+            local = pick(self.free_local)
             out[:, b.free_ends] = (
-                _turn(state.rotation[:, b.element_of_end], local)
-                + (state.centre[:, b.element_of_end])
-            )
+                rot[:, 0] * local[0] + rot[:, 1] * local[1] + rot[:, 2] * local[2]
+            ) + state.centre[:, b.element_of_end]
         return out
 
     def evaluate(
         self, state: BlockState, rows: NDArray[np.intp] | None = None, carriers: bool = False
     ) -> tuple[Array, Array, Array | None, Array]:
         """Residual (n', m) mm, Jacobian on the unknowns (n', m, nu), on the carrier
-        columns when ``carriers`` (n', m, ncc), and the end positions (n', 2m, 3)."""
+        columns when ``carriers`` (n', m, ncc), and the end positions (3, 2m, n')."""
         b = self.block
+        pick = _picker(rows)
         pts = self.ends(state, rows)
-        d = pts[:, 0::2] - pts[:, 1::2]
-        length = self.length if rows is None else self.length[rows]
-        res = (np.einsum("nri,nri->nr", d, d) - length**2) / (2.0 * length)
-        grad = d / length[..., None]
-        signed = np.repeat(grad, 2, axis=1)
-        signed[:, 1::2] *= -1.0  # gradient of each end's row w.r.t. that end
-        n, m = res.shape
+        d = pts[:, 0::2] - pts[:, 1::2]  # (3, m, n')
+        length = pick(self.length)
+        res = (d[0] * d[0] + d[1] * d[1] + d[2] * d[2] - length * length) / (2.0 * length)
+        grad = d / length
+        m, n = res.shape
         jac = np.zeros((n, m, b.n_unknown))
-        rods = np.arange(m).repeat(2)
         if b.rockers.size:
-            # u x (p - a) = c (u x v) - s (v - (u.v) u)
+            # the end's rate per radian: u x (p - a) = c (u x v) - s (v - (u.v) u)
             e = b.rocker_ends
-            terms = self.rocker_terms if rows is None else self.rocker_terms[rows]
-            ang = state.angle[:, b.rocker_of_end, None]
-            rate = np.cos(ang) * terms[:, :, 1] - np.sin(ang) * terms[:, :, 0]
-            value = np.sum(rate * signed[:, e], axis=-1)
-            jac[:, rods[e], b.rocker_cols[b.rocker_of_end]] = value
+            g = grad[:, self.end_rod[e]] * self.end_sign[e]
+            ang = state.angle[b.rocker_of_end]
+            rate = np.cos(ang) * pick(self.rocker_sin) - np.sin(ang) * pick(self.rocker_cos)
+            jac[:, self.end_rod[e], b.rocker_cols[b.rocker_of_end]] = np.sum(rate * g, axis=0).T
         if b.elements.size:
             e = b.free_ends
             lever = pts[:, e] - state.centre[:, b.element_of_end]
-            g = signed[:, e]
-            value = np.concatenate((g, cross(lever, g)), axis=-1) @ self.basis  # (n', fe, k)
-            jac[:, rods[e][:, None], b.element_cols[b.element_of_end]] = value
+            value = self._free_entries(grad, e, lever)  # (fe, k, n')
+            jac[:, self.end_rod[e][:, None], b.element_cols[b.element_of_end]] = value
         jac_c = None
         if carriers:
             jac_c = np.zeros((n, m, b.n_carrier_cols))
             if b.carrier_ends.size:
                 e = b.carrier_ends
-                g = signed[:, e]
-                lever = self.carrier_lever if rows is None else self.carrier_lever[rows]
-                value = np.concatenate((g, cross(lever, g)), axis=-1) @ self.basis
-                jac_c[:, rods[e][:, None], b.carrier_end_cols] = value
-        return res, jac, jac_c, pts
+                value = self._free_entries(grad, e, pick(self.carrier_lever))
+                jac_c[:, self.end_rod[e][:, None], b.carrier_end_cols] = value
+        return res.T, jac, jac_c, pts
+
+    def _free_entries(self, grad: Array, ends: NDArray[np.intp], lever: Array) -> Array:
+        """(n', ends, k) row entries ``[g, lever x g]`` of ends on free bodies."""
+        g = grad[:, self.end_rod[ends]] * self.end_sign[ends]  # (3, e, n')
+        full = np.empty((6, *g.shape[1:]))
+        full[0:3] = g
+        full[3] = lever[1] * g[2] - lever[2] * g[1]
+        full[4] = lever[2] * g[0] - lever[0] * g[2]
+        full[5] = lever[0] * g[1] - lever[1] * g[0]
+        return np.transpose(full[self.block.selection], (2, 1, 0))
 
     def pose(self, state: BlockState, carrier_rotation: Array, carrier_centre: Array) -> Pose:
         """The route linkage's pose at ``state`` (every row); carriers (P, nc, ...) tiled."""
@@ -301,15 +318,15 @@ class BlockRows:
         route = b.link
         n = self.n
         joint = np.zeros((n, route.n_joint))
-        joint[:, route.joint_index[b.rockers]] = state.angle
+        joint[:, route.joint_index[b.rockers]] = state.angle.T
         rot = np.empty((n, route.n_free, 3, 3))
         cen = np.empty((n, route.n_free, 3))
         reps = n // carrier_rotation.shape[0]
         rot[:, : b.carriers] = np.tile(carrier_rotation, (reps, 1, 1, 1))
         cen[:, : b.carriers] = np.tile(carrier_centre, (reps, 1, 1))
         slots = route.free_index[b.elements]
-        rot[:, slots] = state.rotation
-        cen[:, slots] = state.centre
+        rot[:, slots] = np.transpose(state.rotation, (3, 2, 0, 1))
+        cen[:, slots] = np.transpose(state.centre, (2, 1, 0))
         return Pose(joint, rot, cen)
 
     def kinematics(
@@ -334,8 +351,8 @@ class BlockRows:
         col = np.zeros((n, 6, route.n_coords))
         if b.rockers.size:
             u, a = self.axis, self.axis_origin
-            c = np.cos(state.angle)[..., None, None]
-            s = np.sin(state.angle)[..., None, None]
+            c = np.cos(state.angle.T)[..., None, None]
+            s = np.sin(state.angle.T)[..., None, None]
             uu = u[..., :, None] * u[..., None, :]
             turn = c * (np.eye(3) - uu) + s * skew(u) + uu
             rot[:, b.rockers] = turn
@@ -344,49 +361,56 @@ class BlockRows:
             col[:, 0:3, joint] = np.swapaxes(cross(a, u), 1, 2)
             col[:, 3:6, joint] = np.swapaxes(u, 1, 2)
         if b.elements.size:
-            rot[:, b.elements] = state.rotation
-            trans[:, b.elements] = state.centre - _turn(state.rotation, self.refs)
+            rotation = np.transpose(state.rotation, (3, 2, 0, 1))  # (n, ne, 3, 3)
+            centre = np.transpose(state.centre, (2, 1, 0))
+            rot[:, b.elements] = rotation
+            trans[:, b.elements] = centre - _turn(rotation, self.refs)
             ne = b.elements.size
             full = np.zeros((n, ne, 6, 6))
             idx = np.arange(3)
             full[:, :, idx, idx] = 1.0
             full[:, :, 3 + idx, 3 + idx] = 1.0
-            centre = state.centre
             full[:, :, 0:3, 3:6] = skew(centre)  # a turn about e_i moves the origin by c x e_i
             twists = full @ self.basis  # (n, ne, 6, k)
             k = self.basis.shape[1]
             for i, slot in enumerate(route.free_index[b.elements]):
                 start = route.n_joint + int(slot) * k
                 col[:, :, start : start + k] = twists[:, i]
-        body = route.point_body
-        shaped = (g, p, -1, 3)
-        moved = _turn(rot[:, body].reshape(g, p, -1, 3, 3), points[:, None]) + trans[
-            :, body
-        ].reshape(shaped)
+        moved = np.empty((g, p, route.points.shape[1], 3))
+        shaped_rot = rot.reshape(g, p, nb, 3, 3)
+        shaped_trans = trans.reshape(g, p, nb, 3)
+        for body, own in route._points_by_body():
+            moved[:, :, own] = (
+                _turn(shaped_rot[:, :, body, None], points[:, None, own])
+                + shaped_trans[:, :, body, None]
+            )
         return Kinematics(rot, trans, moved.reshape(n, -1, 3), col)
 
 
 def newton(
     rows: BlockRows, state: BlockState, tol_mm: float, iterations: int
-) -> tuple[BlockState, Array, Array, Array]:
+) -> tuple[BlockState, Array, Array, Array, Array]:
     """Newton's method on every row from ``state`` (changed in place), dropping rows as
-    they converge: the state, residual (n, m), Jacobian (n, m, nu) and residual norm
-    (n,) at the end.  A step that does not lower a row's residual is refused and the
-    row stops there (it then fails the caller's tolerance check)."""
-    every = np.arange(rows.n)
-    res, jac, _, _ = rows.evaluate(state)
+    they converge.  Returns the state and, row-first, the residual (n, m), Jacobians on
+    the unknowns (n, m, nu) and on the carrier columns (n, m, ncc), and the residual
+    norm (n,).  A step that does not lower a row's residual is refused and the row stops
+    there (it then fails the caller's tolerance check)."""
+    res, jac, jac_c, _ = rows.evaluate(state, carriers=True)
+    assert jac_c is not None
     norm = np.abs(res).max(axis=1)
-    live = every
+    live = np.arange(rows.n)
     for _ in range(iterations):
         live = live[norm[live] > tol_mm]
         if not live.size:
             break
+        system, rhs = jac[live], -res[live][..., None]
         try:
-            step = np.linalg.solve(jac[live], -res[live][..., None])[..., 0]
+            step = np.linalg.solve(system, rhs)[..., 0]
         except np.linalg.LinAlgError:
-            step = (np.linalg.pinv(jac[live], rcond=1e-12) @ -res[live][..., None])[..., 0]
-        trial = rows.advance(state.take(live), step)
-        t_res, t_jac, _, _ = rows.evaluate(trial, live)
+            step = (np.linalg.pinv(system, rcond=1e-12) @ rhs)[..., 0]
+        trial = rows.advance(state.take(live), step.T)
+        t_res, t_jac, t_jac_c, _ = rows.evaluate(trial, live, carriers=True)
+        assert t_jac_c is not None
         t_norm = np.abs(t_res).max(axis=1)
         better = (t_norm < norm[live]) | (t_norm <= tol_mm)
         if not better.any():
@@ -394,8 +418,47 @@ def newton(
         keep = live[better]
         state.put(keep, trial.take(np.flatnonzero(better)))
         res[keep], jac[keep], norm[keep] = t_res[better], t_jac[better], t_norm[better]
+        jac_c[keep] = t_jac_c[better]
         live = keep
-    return state, res, jac, norm
+    return state, res, jac, jac_c, norm
+
+
+def _rows_last(a: Array, repeat: int = 1) -> Array:
+    """``a`` (rows, entities, 3) or (rows, entities) as (3, entities, rows) or
+    (entities, rows), each design's row repeated ``repeat`` times (contiguous)."""
+    if repeat > 1:
+        a = np.repeat(a, repeat, axis=0)
+    return np.ascontiguousarray(a.T if a.ndim == 2 else np.transpose(a, (2, 1, 0)))
+
+
+def _picker(rows: NDArray[np.intp] | None):  # type: ignore[no-untyped-def]
+    """A function taking the ``rows`` of a rows-last array (all when None)."""
+    if rows is None:
+        return lambda a: a
+    return lambda a: a[..., rows]
+
+
+def _rotation_matrix(rotvec: Array) -> Array:
+    """Rotation matrices (3, 3, ...) of rotation vectors (3, ...) (rad), rows last."""
+    x, y, z = rotvec
+    angle2 = x * x + y * y + z * z
+    angle = np.sqrt(angle2)
+    small = angle < 1e-4
+    safe = np.where(small, 1.0, angle)
+    # sin(t)/t and (1 - cos t)/t^2, by their series below 1e-4 rad
+    a = np.where(small, 1.0 - angle2 / 6.0, np.sin(safe) / safe)
+    b = np.where(small, 0.5 - angle2 / 24.0, (1.0 - np.cos(safe)) / (safe * safe))
+    out = np.empty((3, 3, *x.shape))
+    out[0, 0] = 1.0 - b * (y * y + z * z)
+    out[1, 1] = 1.0 - b * (x * x + z * z)
+    out[2, 2] = 1.0 - b * (x * x + y * y)
+    out[0, 1] = b * x * y - a * z
+    out[1, 0] = b * x * y + a * z
+    out[0, 2] = b * x * z + a * y
+    out[2, 0] = b * x * z - a * y
+    out[1, 2] = b * y * z - a * x
+    out[2, 1] = b * y * z + a * x
+    return out
 
 
 def _turn(rotation: Array, vector: Array) -> Array:
