@@ -69,7 +69,7 @@ CASES: dict[str, tuple[str, str, str, str, str]] = {
         "design.top_speed_kmh",
         "more than 0 and at most 500 km/h",
     ),
-    "400-digit integer in an open table": (
+    "400-digit integer in [tradeoff]": (
         (ROOT / "student_rear_wing.toml").read_text(encoding="utf-8"),
         "corner_sprung_mass_rear_kg = 62.0",
         f"corner_sprung_mass_rear_kg = {DIGITS_400}",

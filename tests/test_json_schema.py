@@ -20,7 +20,11 @@ import pytest
 import plumbrod
 from designs import EXAMPLE, EXAMPLES, replace_once
 from plumbrod.design.json_schema import SCHEMA_FILE_NAME, design_json_schema, schema_text
+from plumbrod.design.loading import parse_design
+from plumbrod.design.schema import children
 from plumbrod.design.templates import STARTER, read_template
+from plumbrod.design.tune_spec import read_tune
+from plumbrod.kinematics.build import build_linkage
 
 TEMPLATES = sorted((Path(plumbrod.__file__).parent / "design" / "templates").glob("*.toml"))
 BASE = EXAMPLE.read_text(encoding="utf-8")
@@ -133,3 +137,63 @@ def test_new_keeps_a_foreign_file_of_the_schema_name(tmp_path: Path) -> None:
     assert done.returncode == 0, done.stderr
     assert foreign.read_text(encoding="utf-8") == '{"mine": true}\n'
     assert "kept" in done.stdout
+
+
+TUNED = (EXAMPLE.parent / "tune_splitter.toml").read_text(encoding="utf-8")
+
+
+@pytest.mark.parametrize(
+    ("base", "old", "new", "where", "said"),
+    [
+        (BASE, "wheelbase_mm = 2300.0", "wheelbase_nm = 2300.0", ["car"], "wheelbase_nm"),
+        (BASE, "wheelbase_mm = 2300.0", "wheelbase_mm = 230000.0", ["car", "wheelbase_mm"], ""),
+        (BASE, "roll_stiffness_front_share = 0.55", "roll_stiffness_front_share = 1.5",
+         ["car", "roll_stiffness_front_share"], ""),
+        (BASE, "damping_ratio = 0.5", "damping_rato = 0.5", ["tradeoff"], "damping_rato"),
+        (BASE, "damping_ratio = 0.5", "damping_ratio = 7.0", ["tradeoff", "damping_ratio"], ""),
+        (BASE, 'road_classes = ["A", "B", "C"]', 'road_classes = ["A", "Z"]',
+         ["tradeoff", "road_classes", 1], ""),
+        (BASE, "tyre_rate_N_per_mm = 250.0", "", ["tradeoff"], "tyre_rate_N_per_mm"),
+        (TUNED, "population = 16", "populaton = 16", ["tune"], "populaton"),
+        (TUNED, "population = 16", "population = 2", ["tune", "population"], ""),
+        (TUNED, "generations = 30", "generations = 30.5", ["tune", "generations"], ""),
+        (TUNED, "range_mm = [-30.0, 30.0]", "range = [-30.0, 30.0]",
+         ["tune", "variables", "drop"], "range"),
+        (TUNED, "range_mm = [-30.0, 30.0]", "range_mm = [-30.0, 3000.0]",
+         ["tune", "variables", "drop", "range_mm", 1], ""),
+        (TUNED, "mass = 0.05", "mass = -1.0", ["tune", "weights", "mass"], ""),
+        (TUNED, "mass = 0.05", "masss = 1.0", ["tune", "weights"], "masss"),
+    ],
+)  # fmt: skip
+def test_broken_tune_car_and_tradeoff_tables_do_not_validate(
+    base: str, old: str, new: str, where: list[object], said: str
+) -> None:
+    assert base.count(old) == 1, old
+    data = tomllib.loads(base.replace(old, new))
+    errors = list(_validator().iter_errors(data))
+    found = [e for e in errors if list(e.absolute_path)[: len(where)] == where]
+    assert found, [(list(e.absolute_path), e.message) for e in errors]
+    assert any(said in e.message for e in found), [e.message for e in found]
+
+
+def test_the_tune_example_validates_with_every_tune_key() -> None:
+    """The schema lists each key of [tune]: a table using all of them still validates."""
+    text = TUNED.replace("population = 16", "population = 16\nscreen_steps = 21\npolish = 2")
+    text = text.replace(
+        "[tune.weights]",
+        '[tune.variables.box]\npivot = "rocker_left"\nbox_mm = { x = [-5.0, 5.0], '
+        "y = [-5.0, 5.0], z = [-2.0, 2.0] }\n\n"
+        "[tune.targets]\nroute_ratio = 1.0\nroute_ratio_range = [0.9, 1.1]\n"
+        "line_of_action_deg = 5.0\ntransmission_angle_deg = [30.0, 150.0]\n"
+        "heave_sensitivity = 0.1\nbuckling_reserve = 2.0\ntension_reserve = 2.0\n"
+        "clearance_mm = 3.0\nsprung_leakage = 0.1\n\n[tune.weights]\nleakage = 0.5",
+    )
+    data = tomllib.loads(text)
+    assert set(data["tune"]) == {k.name for k in children("tune")}
+    assert set(data["tune"]["targets"]) == {k.name for k in children("tune.targets")}
+    assert list(_validator().iter_errors(data)) == []
+    design = parse_design(text, "tuned.toml")  # and the loader takes it too
+    spec = read_tune(design, data, build_linkage(design).point_names)
+    assert [v.name for v in spec.variables] == ["front_arm", "drop", "box.x", "box.y", "box.z"]
+    assert spec.targets.transmission_angle_deg == (30.0, 150.0)
+    assert spec.weights == {"route_ratio": 1.0, "mass": 0.05, "leakage": 0.5}

@@ -15,24 +15,42 @@ def test_readme_reference_matches_the_schema_table() -> None:
     )
 
 
-def test_every_closed_key_appears_in_the_reference() -> None:
-    markdown = reference_markdown()
+def _sections(markdown: str) -> dict[str, str]:
+    """The generated reference's sections by title (``[corners.<name>]``)."""
+    out: dict[str, str] = {}
+    for part in markdown.split("### `")[1:]:
+        title, _, body = part.partition("`")
+        out[title] = body
+    return out
+
+
+def test_every_key_has_a_row_in_its_tables_section() -> None:
+    sections = _sections(reference_markdown())
     for key in KEYS:
-        if key.open or any(entry_open(p) for p in _parents(key.path)):
+        if key.name == "*":
+            continue  # [corners] -> [corners.<name>], or a named value: its table's row
+        if not key.parent:
+            title = f"[{key.path}]"
+            assert title in sections or f"[{key.path}.<name>]" in sections, key.path
             continue
-        if key.name == "*" and key.kind not in ("table", "named"):
-            continue  # a named value: its table's row says what it is
-        name = key.name
-        title = "[" + key.path.replace("*", "<name>")
-        assert f"`{name}`" in markdown or title in markdown, key.path
+        title = "[" + key.parent.replace("*", "<name>") + "]"
+        assert title in sections, key.path
+        assert f"\n| `{key.name}` |" in sections[title], key.path
 
 
-def _parents(path: str) -> list[str]:
-    parts = path.split(".")
-    return [".".join(parts[:i]) for i in range(1, len(parts))]
-
-
-def entry_open(path: str) -> bool:
-    from plumbrod.design.schema import entry
-
-    return entry(path).open
+def test_tune_car_and_tradeoff_are_generated_not_hand_written() -> None:
+    sections = _sections(reference_markdown())
+    for title in (
+        "[tune]",
+        "[tune.variables.<name>]",
+        "[tune.variables.<name>.box_mm]",
+        "[tune.targets]",
+        "[tune.weights]",
+        "[car]",
+        "[tradeoff]",
+    ):
+        assert title in sections, title
+    text = README.read_text(encoding="utf-8")
+    hand_written = text.split(END, 1)[1]
+    for title in ("[tune]", "[car]", "[tradeoff]"):
+        assert f"### `{title}`" not in hand_written, title

@@ -21,6 +21,8 @@ from dataclasses import dataclass, replace
 from typing import Any
 
 from plumbrod.design.model import Car, Design
+from plumbrod.design.reader import Reader
+from plumbrod.design.schema import children, entry
 from plumbrod.errors import DesignFileError
 
 __all__ = [
@@ -37,39 +39,22 @@ __all__ = [
 
 AXLE_TOLERANCE_MM = 50.0
 WHEELBASE_AGREEMENT_MM = 1.0
-CAR_KEYS = (
-    "wheelbase_mm",
-    "track_front_mm",
-    "track_rear_mm",
-    "roll_stiffness_front_share",
-    "wheel_rate_front_N_per_mm",
-    "wheel_rate_rear_N_per_mm",
-)
-DEFAULT_ROLL_SHARE = 0.5
+CAR_KEYS = tuple(k.name for k in children("car"))
+"""The keys of ``[car]`` (their kinds, units and ranges: ``schema_tables_car.py``)."""
+DEFAULT_ROLL_SHARE: float = entry("car.roll_stiffness_front_share").default
 """Front share of the roll stiffness when the design gives none: common practice, no
 source (an even split); give your car's."""
 
 
-def read_car(reader: Any, table: Any) -> Car:
-    """``[car]`` through the design reader (its ``keys`` and ``number`` helpers)."""
+def read_car(reader: Reader, table: Any) -> Car:
+    """``[car]`` through the design reader: every value by its schema entry."""
     r = reader
-    r.keys(table, "car", CAR_KEYS)
-    values: dict[str, Any] = {}
-    for key in CAR_KEYS:
-        if key not in table:
-            continue
-        if key == "roll_stiffness_front_share":
-            share = r.number(table[key], f"car.{key}")
-            if not 0.0 <= share <= 1.0:
-                r.fail(
-                    f"car.{key}",
-                    f"expected a share from 0 to 1, got {share}",
-                    "give the front axle's share of the car's roll stiffness, e.g. 0.55",
-                )
-            values[key] = share
-            values["roll_share_given"] = True
-        else:
-            values[key] = r.number(table[key], f"car.{key}", positive=True)
+    r.table(table, "car", "car")
+    values: dict[str, Any] = {
+        k.name: r.value(table, "car", k.path) for k in children("car") if k.name in table
+    }
+    if "roll_stiffness_front_share" in values:
+        values["roll_share_given"] = True
     return Car(**values)
 
 

@@ -60,13 +60,19 @@ def _value(key: Key) -> dict[str, Any]:
         schema = {"type": "string"}
         if key.choices:
             schema["enum"] = list(key.choices)
+    elif kind == "string_list":
+        item: dict[str, Any] = {"type": "string"}
+        if key.choices:
+            item["enum"] = list(key.choices)
+        schema = _array(item, 1, None)
+        schema["uniqueItems"] = True
     elif kind == "boolean":
         schema = {"type": "boolean"}
     elif kind == "number":
         schema = number
     elif kind == "integer":
         schema = _bounded(key, "integer")
-    elif kind in ("point", "zone_point"):
+    elif kind in ("point", "zone_point", "direction"):
         schema = _array(number, 2, 3)  # [x, y, z], or a planar view's two
     elif kind == "range":
         schema = _array(number, 2, 2)
@@ -100,8 +106,6 @@ def _names(path: str) -> dict[str, Any]:
 def _table(path: str) -> dict[str, Any]:
     """The JSON Schema of the table at ``path`` (fixed keys, or user-chosen names)."""
     spec = entry(path) if path else None
-    if spec is not None and spec.open:
-        return {"type": "object"}
     kids = children(path)
     if spec is not None and spec.kind == "named":
         star = next(k for k in kids if k.name == "*")

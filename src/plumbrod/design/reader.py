@@ -126,6 +126,8 @@ class Reader:
         kind = spec.kind
         if kind == "string":
             return self.string(value, key, spec.choices or None)
+        if kind == "string_list":
+            return self.strings(value, key, spec)
         if kind == "boolean":
             return self.boolean(value, key)
         if kind == "number":
@@ -136,6 +138,8 @@ class Reader:
             return self.point(value, key, spec)
         if kind == "zone_point":
             return self.zone_point(value, key, spec)
+        if kind == "direction":
+            return self.direction(value, key, spec)
         if kind == "range":
             return self.range_(value, key, spec)
         if kind == "vector3":
@@ -172,6 +176,10 @@ class Reader:
         if non_negative and value < 0:
             problem, fix = low or ("expected zero or more, got {value}", "use a value of 0 or more")
             self.fail(key, problem.format(value=value), fix)
+        if spec is not None and spec.too_high and spec.maximum is not None:
+            if value > spec.maximum:
+                problem, fix = spec.too_high
+                self.fail(key, problem.format(value=number_text(value)), fix)
         if spec is not None and not in_range(value, spec):
             self.fail(
                 key,
@@ -227,6 +235,18 @@ class Reader:
                 )
                 self.fail(key, f"'{value}' is not allowed", hint)
         return value
+
+    def strings(self, value: Any, key: str, spec: Key) -> tuple[str, ...]:
+        """One or more strings (each one of the entry's choices, when it has them)."""
+        if not isinstance(value, list) or not value:
+            got = "an empty list" if value == [] else f"{type_name(value)} {shown(value)}"
+            self.fail(
+                key,
+                f"expected a list of one or more strings such as {spec.shape}, got {got}",
+                f"write {spec.name} = {spec.shape}",
+            )
+        choices = spec.choices or None
+        return tuple(self.string(v, f"{key}[{i}]", choices) for i, v in enumerate(value))
 
     def boolean(self, value: Any, key: str) -> bool:
         if not isinstance(value, bool):
@@ -299,6 +319,16 @@ class Reader:
             return self.point(value, key, spec)
         x, y, z = self.numbers(value, key, 3, "a point [x, y, z] in mm", spec)
         return (x, y, z)
+
+    def direction(self, value: Any, key: str, spec: Key) -> Vec3:
+        """A direction: [dx, dy, dz], or the view's two in a planar design (any length)."""
+        if self.plane is None:
+            x, y, z = self.numbers(value, key, 3, "a direction [dx, dy, dz]", spec)
+            return (x, y, z)
+        view = "[dy, dz]" if self.plane == "front" else "[dx, dz]"
+        what = f"a direction {view} (planar {self.plane} view)"
+        a, b = self.numbers(value, key, 2, what, spec)
+        return lift(a, b, self.plane)
 
     def range_(self, value: Any, key: str, spec: Key | None = None) -> tuple[float, float]:
         lo, hi = self.numbers(value, key, 2, "a range [from, to]", spec)

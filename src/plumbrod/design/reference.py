@@ -2,9 +2,7 @@
 
 ``python -m plumbrod.design.reference --write`` rewrites the part of the README between
 the two marker lines; ``--check`` exits 1 when it is out of date (the test suite runs
-the same comparison).  Tables whose keys their own reader checks (``open`` entries:
-``[tune]``, ``[car]``, ``[tradeoff]`` for now) keep their hand-written sections outside
-the generated part.
+the same comparison).
 """
 
 from __future__ import annotations
@@ -14,7 +12,7 @@ import os
 import sys
 from pathlib import Path
 
-from plumbrod.design.schema import KEYS, Key, children, entry
+from plumbrod.design.schema import Key, children, entry
 
 __all__ = ["BEGIN", "END", "README", "reference_markdown", "replace_reference"]
 
@@ -87,6 +85,31 @@ NOTES: dict[str, str] = {
         "`top-speed-bump-3g`. The 3 g bump is common practice: confirm it for your car."
     ),
     "materials.*": "Use your supplier's certified values.",
+    "tune.variables.*": (
+        'Give `points = ["<body>.<pickup>", ...]` (moved together) or '
+        '`pivot = "<rocker>"` (its whole pivot axis); then `line = [dx, dy, dz]` with '
+        "`range_mm = [from, to]` (offsets along the line; its length does not matter), or "
+        "`box_mm = { x = [lo, hi], z = [lo, hi] }` (axes left out stay fixed). A planar "
+        "design gives the view's two coordinates for `line` and its two axes in `box_mm`. "
+        "With `mirror = true` the right-hand copy of every moved point follows its "
+        "original (y negated)."
+    ),
+    "car": (
+        "Corners whose wheel centres lie within 50 mm of each other in x share an axle; the "
+        "front axle has the larger x. A design whose corners sit on one axle says which by "
+        "the corner names (`front`/`rear` in every name), else by position (behind "
+        "x = −50 mm: the rear axle). In a side-view design each corner stands for its whole "
+        "axle; a front-view design has no pitch moment and needs no wheelbase."
+    ),
+    "tradeoff": (
+        "Give the sprung mass per corner or as `sprung_mass_kg` with "
+        "`sprung_mass_front_share`, and the damping as `damping_ratio` or "
+        "`damper_rate_N_s_per_mm` (one of each). Each corner the routes reach also needs its "
+        "own `unsprung_mass_kg`. The wheel rates (bolted case; without one, the rate that "
+        "meets the budget) and the wheelbase come from `[car]`; each axle's share of the "
+        "downforce and drag is the spring-load statics of `[car]`. In a side-view planar "
+        "design a corner stands for its axle: give the axle's masses and rates."
+    ),
     "zones.*": (
         "Zone points always take three coordinates `[x, y, z]` (zones are solids); a "
         "planar design also accepts its view's two. Every corner also gets a tyre "
@@ -98,11 +121,13 @@ _KIND_TEXT = {
     "table": "table",
     "named": "table of `<name> = ...`",
     "string": "text",
+    "string_list": "list of text",
     "boolean": "true/false",
     "number": "number",
     "integer": "whole number",
     "point": "point",
     "zone_point": "point `[x, y, z]`",
+    "direction": "direction",
     "range": "`[from, to]`",
     "axis": "two points",
     "ends": "two pickup names",
@@ -113,6 +138,7 @@ _KIND_TEXT = {
 _WHEN_TEXT = {
     ("3d",): "3D only",
     ("3d", "side"): "not in a front-view design",
+    ("3d", "front"): "not in a side-view design",
     ("front", "side"): "planar only",
     ("front",): "front-view design only",
     ("double_wishbone",): "double wishbone only",
@@ -134,6 +160,10 @@ def _num(x: float) -> str:
 def _value(key: Key) -> str:
     if key.kind == "string" and key.choices:
         return ", ".join(f'`"{c}"`' for c in key.choices)
+    if key.kind == "string_list":
+        return "list of " + (", ".join(f'`"{c}"`' for c in key.choices) or "text")
+    if key.kind == "direction":
+        return "`[dx, dy, dz]`"
     if key.kind == "vector3":
         return f"`{key.shape.split(' in ')[0]}`"
     return _KIND_TEXT[key.kind]
@@ -143,7 +173,7 @@ def _allowed(key: Key) -> str:
     lo, hi = key.minimum, key.maximum
     if lo is None or hi is None:
         return ""
-    if key.kind in ("point", "zone_point", "axis", "outline") and lo == -hi:
+    if key.kind in ("point", "zone_point", "direction", "axis", "outline") and lo == -hi:
         return f"each within ±{_num(hi)}"
     each = "each " if key.kind in ("range", "vector3", "steps2") else ""
     if key.open_minimum:
@@ -162,7 +192,8 @@ def _default(key: Key) -> str:
     if isinstance(value, str):
         return f'`"{value}"`' if value else '`""`'
     if isinstance(value, tuple):
-        return "`[" + ", ".join(_num(v) for v in value) + "]`"
+        shown = (f'"{v}"' if isinstance(v, str) else _num(v) for v in value)
+        return "`[" + ", ".join(shown) + "]`"
     return f"`{_num(value)}`"
 
 
@@ -197,8 +228,6 @@ def _sections(path: str, intro: str = "") -> list[str]:
     """Markdown of the table at ``path`` and of the tables inside it."""
     spec = entry(path)
     kids = children(path)
-    if spec.open:
-        return []
     if path and entry(path).required and not intro:
         intro = "required"
     if (
@@ -255,14 +284,6 @@ def reference_markdown() -> str:
     ]
     for top in children(""):
         lines += _sections(top.path)
-    open_tables = [f"`[{k.path}]`" for k in KEYS if k.open]
-    if open_tables:
-        lines += [
-            "Checked by their own readers for now (described below): "
-            + ", ".join(open_tables)
-            + ".",
-            "",
-        ]
     return "\n".join(lines).rstrip("\n") + "\n"
 
 

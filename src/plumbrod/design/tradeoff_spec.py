@@ -1,30 +1,14 @@
 """The ``[tradeoff]`` table: what the ride study (``plumbrod tradeoff``) needs about the
 car beyond the route itself.
 
-Keys (units in the names; per corner means one wheel's share):
+The sprung mass comes per corner (``corner_sprung_mass_front_kg`` / ``_rear_kg``) or
+as the car's ``sprung_mass_kg`` with ``sprung_mass_front_share``; the damping at the
+wheel as ``damping_ratio`` or ``damper_rate_N_s_per_mm`` (one of them).  The wheel
+rates and the wheelbase come from ``[car]``.
 
-* sprung mass: ``corner_sprung_mass_front_kg`` / ``corner_sprung_mass_rear_kg``, or the
-  car's ``sprung_mass_kg`` with ``sprung_mass_front_share`` (0 to 1);
-* ``tyre_rate_N_per_mm``: the tyre's vertical stiffness (required);
-* damping at the wheel: ``damping_ratio`` (of critical, on the wheel rate) or
-  ``damper_rate_N_s_per_mm`` (one of them, required);
-* ``ride_height_budget_mm``: how far the aero load may lower the body at top speed
-  (required);
-* ``road_classes``: ISO 8608 classes, default every class A to E (the first one is the
-  verdict's);
-* ``speed_steps``: speeds from top speed / steps to top speed, default 12 (our own
-  default: it only sets the plots' resolution);
-* ``target_ride_frequency_Hz`` (optional): the softest ride frequency the routed car
-  may drop to;
-* ``downforce_per_mm`` (optional, N/mm at top speed, + = more downforce as the element
-  nears the road): the aero stiffness, scaled with the square of the speed;
-* ``bump_travel_mm`` (optional): travel to the bump stop at static ride height; default
-  the bump end of the travel sweep;
-
-The wheel rates and the wheelbase come from ``[car]``.
-
-This module reads the table only; it imports nothing from the loader, so the schema can
-take these keys over unchanged.
+Each value is read through its schema entry (``schema_tables_car.py``: kind, unit,
+range, default); this module keeps the checks across keys (damping given once,
+the sprung mass given one way, each road class once).
 """
 
 from __future__ import annotations
@@ -32,43 +16,26 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any, NoReturn, Protocol
 
+from plumbrod.design.schema import children, entry
+from plumbrod.design.schema_tables_car import DEFAULT_ROAD_CLASSES, ROAD_CLASSES
+
 __all__ = ["ROAD_CLASSES", "TRADEOFF_KEYS", "TradeoffSpec", "read_tradeoff"]
 
-ROAD_CLASSES = ("A", "B", "C", "D", "E", "F", "G", "H")
-"""The ISO 8608 classes."""
+DEFAULT_SPEED_STEPS: int = entry("tradeoff.speed_steps").default
 
-DEFAULT_ROAD_CLASSES: tuple[str, ...] = ("A", "B", "C", "D", "E")
-DEFAULT_SPEED_STEPS = 12
-
-TRADEOFF_KEYS = (
-    "corner_sprung_mass_front_kg",
-    "corner_sprung_mass_rear_kg",
-    "sprung_mass_kg",
-    "sprung_mass_front_share",
-    "tyre_rate_N_per_mm",
-    "damping_ratio",
-    "damper_rate_N_s_per_mm",
-    "ride_height_budget_mm",
-    "road_classes",
-    "speed_steps",
-    "target_ride_frequency_Hz",
-    "downforce_per_mm",
-    "bump_travel_mm",
-)
+TRADEOFF_KEYS = tuple(k.name for k in children("tradeoff"))
+"""The keys of ``[tradeoff]`` (their kinds, units and ranges: ``schema_tables_car.py``)."""
 
 
 class _Reader(Protocol):
+    """What this module uses of :class:`plumbrod.design.reader.Reader` (not imported:
+    the model imports this module and the reader imports the model)."""
+
     def fail(self, key: str, problem: str, fix: str = "") -> NoReturn: ...
 
-    def keys(self, table: Any, key: str, allowed: Any, required: Any = ()) -> dict[str, Any]: ...
+    def table(self, table: Any, key: str, path: str, *tags: str) -> dict[str, Any]: ...
 
-    def number(
-        self, value: Any, key: str, *, positive: bool = False, non_negative: bool = False
-    ) -> float: ...
-
-    def integer(self, value: Any, key: str, *, minimum: int = 1) -> int: ...
-
-    def string(self, value: Any, key: str, choices: Any = None) -> str: ...
+    def value(self, table: dict[str, Any], key: str, path: str) -> Any: ...
 
 
 @dataclass(frozen=True)
@@ -100,28 +67,17 @@ class TradeoffSpec:
         return None
 
 
-_HINTS = {
-    "tyre_rate_N_per_mm": "add the tyre's vertical stiffness, e.g. tyre_rate_N_per_mm = 250",
-    "ride_height_budget_mm": (
-        "add how far the aero load may lower the body at top speed, e.g. ride_height_budget_mm = 10"
-    ),
-}
-
-
 def read_tradeoff(table: Any, r: _Reader) -> TradeoffSpec | None:
     """Validate a ``[tradeoff]`` table (None when the design has none)."""
     if table is None:
         return None
-    t = r.keys(table, "tradeoff", TRADEOFF_KEYS)
-    for key in ("tyre_rate_N_per_mm", "ride_height_budget_mm"):
-        if key not in t:
-            r.fail(f"tradeoff.{key}", "missing key", _HINTS[key])
+    t = r.table(table, "tradeoff", "tradeoff")
 
-    def num(key: str, **kw: bool) -> float | None:
-        return r.number(t[key], f"tradeoff.{key}", **kw) if key in t else None
+    def val(name: str) -> Any:
+        return r.value(t, "tradeoff", f"tradeoff.{name}")
 
-    ratio = num("damping_ratio", positive=True)
-    rate = num("damper_rate_N_s_per_mm", positive=True)
+    ratio = val("damping_ratio")
+    rate = val("damper_rate_N_s_per_mm")
     if ratio is None and rate is None:
         r.fail(
             "tradeoff.damping_ratio",
@@ -134,26 +90,14 @@ def read_tradeoff(table: Any, r: _Reader) -> TradeoffSpec | None:
             "both damping_ratio and damper_rate_N_s_per_mm are given",
             "keep one of them",
         )
-    if ratio is not None and ratio >= 5.0:
-        r.fail(
-            "tradeoff.damping_ratio",
-            f"{ratio:g} of critical is not a car's damper",
-            "use a ratio below 5",
-        )
 
     corner = {
         axle: v
         for axle in ("front", "rear")
-        if (v := num(f"corner_sprung_mass_{axle}_kg", positive=True)) is not None
+        if (v := val(f"corner_sprung_mass_{axle}_kg")) is not None
     }
-    total = num("sprung_mass_kg", positive=True)
-    share = num("sprung_mass_front_share")
-    if share is not None and not 0.0 <= share <= 1.0:
-        r.fail(
-            "tradeoff.sprung_mass_front_share",
-            f"expected 0 to 1, got {share:g}",
-            "give the front axle's share of the sprung mass",
-        )
+    total = val("sprung_mass_kg")
+    share = val("sprung_mass_front_share")
     if (total is None) != (share is None):
         missing = "sprung_mass_front_share" if share is None else "sprung_mass_kg"
         r.fail(
@@ -175,45 +119,20 @@ def read_tradeoff(table: Any, r: _Reader) -> TradeoffSpec | None:
             "sprung_mass_front_share",
         )
 
-    classes: tuple[str, ...] = DEFAULT_ROAD_CLASSES
-    if "road_classes" in t:
-        raw = t["road_classes"]
-        if not isinstance(raw, list) or not raw:
-            r.fail(
-                "tradeoff.road_classes",
-                "expected a list of ISO 8608 classes",
-                'write e.g. road_classes = ["A", "B"]',
-            )
-        classes = tuple(
-            r.string(v, f"tradeoff.road_classes[{i}]", ROAD_CLASSES) for i, v in enumerate(raw)
-        )
-        if len(set(classes)) != len(classes):
-            r.fail("tradeoff.road_classes", "a class is listed twice", "list each class once")
-    steps = DEFAULT_SPEED_STEPS
-    if "speed_steps" in t:
-        steps = r.integer(t["speed_steps"], "tradeoff.speed_steps", minimum=2)
-        if steps > 500:
-            r.fail(
-                "tradeoff.speed_steps",
-                f"{steps} speeds is more than the study needs",
-                "use 500 or fewer",
-            )
-
+    classes = val("road_classes")
+    if len(set(classes)) != len(classes):
+        r.fail("tradeoff.road_classes", "a class is listed twice", "list each class once")
     return TradeoffSpec(
-        tyre_rate_N_per_mm=r.number(
-            t["tyre_rate_N_per_mm"], "tradeoff.tyre_rate_N_per_mm", positive=True
-        ),
-        ride_height_budget_mm=r.number(
-            t["ride_height_budget_mm"], "tradeoff.ride_height_budget_mm", positive=True
-        ),
+        tyre_rate_N_per_mm=val("tyre_rate_N_per_mm"),
+        ride_height_budget_mm=val("ride_height_budget_mm"),
         damping_ratio=ratio,
         damper_rate_N_s_per_mm=rate,
         corner_sprung_mass_kg=corner or None,
         sprung_mass_kg=total,
         sprung_mass_front_share=share,
         road_classes=classes,
-        speed_steps=steps,
-        target_ride_frequency_Hz=num("target_ride_frequency_Hz", positive=True),
-        downforce_per_mm=num("downforce_per_mm") or 0.0,
-        bump_travel_mm=num("bump_travel_mm", positive=True),
+        speed_steps=val("speed_steps"),
+        target_ride_frequency_Hz=val("target_ride_frequency_Hz"),
+        downforce_per_mm=val("downforce_per_mm"),
+        bump_travel_mm=val("bump_travel_mm"),
     )

@@ -35,6 +35,7 @@ from plumbrod.kinematics.design_grid import GridSolution, _identity_like
 from plumbrod.kinematics.drives import Drive
 from plumbrod.kinematics.frames import Array, Pose, cross
 from plumbrod.kinematics.linkage import FREE, Kinematics, Linkage
+from plumbrod.kinematics.route_block import BlockRows, RouteBlock, newton, route_block
 from plumbrod.kinematics.solver import _branch_sign, _solve_linear, solve_poses, tangent
 
 __all__ = ["Reduction", "reduce_linkage", "solve_grid_reduced"]
@@ -62,6 +63,8 @@ class Reduction:
     corner_body_full: NDArray[np.intp]  # corner-linkage body -> full body
     corner_point_full: NDArray[np.intp]  # corner-linkage point -> full point
     corner_cols_full: NDArray[np.intp]  # corner-linkage coordinate -> full column
+    block: RouteBlock | None = None
+    """The route block's closed-form rows, when its shape allows them."""
     cache: dict[bytes, _Carriers] = field(default_factory=dict, compare=False, repr=False)
     """The suspension's solution per drive: the same for every candidate."""
 
@@ -236,6 +239,12 @@ def reduce_linkage(link: Linkage, moved: NDArray[np.intp]) -> Reduction | None:
         corner_body_full=corner_body_full,
         corner_point_full=corner_point_full,
         corner_cols_full=corner_cols,
+        block=route_block(
+            route,
+            len(carriers),
+            np.array(unknown, dtype=np.intp),
+            np.array(carrier_cols, dtype=np.intp),
+        ),
     )
 
 
@@ -292,6 +301,8 @@ def solve_grid_reduced(red: Reduction, points: Array, drive: Drive) -> GridSolut
     sub_pts = np.where(
         (red.route_points >= 0)[None, :, None], points[:, np.maximum(red.route_points, 0)], 0.0
     )
+    if red.block is not None:
+        return _solve_block(red, red.block, points, sub_pts, params, carriers, at_zero)
     nc = red.carrier_bodies.size
     n_el = route.n_free - nc
 
@@ -360,6 +371,47 @@ def solve_grid_reduced(red: Reduction, points: Array, drive: Drive) -> GridSolut
     safe = np.where(np.repeat(assembled, p)[:, None, None], j_rr, _identity_like(j_rr))
     rate = np.tile(carriers.rate, (g, 1, 1))
     t_route = np.asarray(-np.linalg.solve(safe, jac[:, :, red.carrier_cols] @ rate), dtype=float)
+    return _assemble(red, points, carriers, kin, pose, t_route, assembled, g, p)
+
+
+def _solve_block(
+    red: Reduction,
+    block: RouteBlock,
+    points: Array,
+    sub_pts: Array,
+    params: Array,
+    carriers: _Carriers,
+    at_zero: _Carriers,
+) -> GridSolution:
+    """:func:`solve_grid_reduced` on the closed-form route block (same steps, less work)."""
+    g, p = points.shape[0], params.shape[0]
+    n = g * p
+    # design pose of every candidate: branch sign and tangent, once per design
+    rows0 = BlockRows(block, sub_pts, at_zero.rotation, at_zero.centre)
+    _, j_rr0, j_rc0, _ = rows0.evaluate(rows0.design_state(), carriers=True)
+    assert j_rc0 is not None
+    ok = np.all(np.isfinite(j_rr0), axis=(1, 2)) & np.all(np.isfinite(j_rc0), axis=(1, 2))
+    sign0 = np.linalg.slogdet(np.where(ok[:, None, None], j_rr0, 0.0))[0]
+    ok &= sign0 != 0
+    safe0 = np.where(ok[:, None, None], j_rr0, _identity_like(j_rr0))
+    rate0 = np.broadcast_to(at_zero.rate, (g, *at_zero.rate.shape[1:]))
+    tan0 = -np.linalg.solve(safe0, np.where(ok[:, None, None], j_rc0, 0.0) @ rate0)
+
+    rows = BlockRows(block, sub_pts, carriers.rotation, carriers.centre)
+    guess = np.einsum("gup,kp->gku", tan0, params).reshape(n, -1)
+    state = rows.advance(rows.design_state(), guess.T)
+    state, res, jac, jac_c, norm = newton(rows, state, TOL_MM, MAX_ITERATIONS)
+    good = (norm <= 1e-8) & np.all(np.isfinite(res), axis=1)
+    sign = np.linalg.slogdet(np.where(good[:, None, None], jac, 0.0))[0]
+    good &= sign == np.repeat(sign0, p)
+    assembled = good.reshape(g, p).all(axis=1) & ok
+    every = np.repeat(assembled, p)
+    safe = np.where(every[:, None, None], jac, _identity_like(jac))
+    rate = np.tile(carriers.rate, (g, 1, 1))
+    jac_c = np.where(every[:, None, None], jac_c, 0.0)
+    t_route = np.asarray(-np.linalg.solve(safe, jac_c @ rate), dtype=float)
+    pose = rows.pose(state, carriers.rotation, carriers.centre)
+    kin = rows.kinematics(state, carriers.rotation, carriers.centre, sub_pts)
     return _assemble(red, points, carriers, kin, pose, t_route, assembled, g, p)
 
 

@@ -64,7 +64,7 @@ class Statics:
     imbalance: Array  # (B, K, nb, 6) free bodies' force and moment sums, N and N·mm
     chassis_wrench: Array  # (B, K, E, 6) what the chassis receives from each element's loads
     leakage: Array  # (B, K, E, 3) heave N, roll N·m, pitch N·m, direct
-    leakage_virtual_work: Array  # (B, K, E, 3) the same by virtual work
+    leakage_virtual_work: Array  # (B, K, E, 3) the same by virtual work (NaN: skipped)
     vertical_load_N: Array  # (B, K, E) each element's applied vertical load (− = down)
     applied_wrench: Array  # (B, K, 6) total applied loads, N and N·mm about the origin
     upright_force_N: dict[str, Array]  # route -> (B, K, 3) on the corner, ground frame
@@ -104,8 +104,13 @@ def solve_statics(
     members: dict[str, Member],
     loads: AppliedLoads,
     result: SweepResult,
+    *,
+    virtual_work: bool = True,
 ) -> Statics:
-    """Member forces, reactions, upright loads and leakage at every pose of a sweep."""
+    """Member forces, reactions, upright loads and leakage at every pose of a sweep.
+
+    ``virtual_work`` False skips the virtual-work cross-check of the leakage (its field
+    is then NaN): for screening many candidates, never for a reported result."""
     kin = result.solved.kin
     n = result.spec.size
     k_cases, n_el = len(loads.cases), len(loads.elements)
@@ -204,7 +209,9 @@ def solve_statics(
         imbalance=per_case(imbalance),
         chassis_wrench=chassis,
         leakage=_leakage(chassis, rot, trans, refs),
-        leakage_virtual_work=_virtual_work(
+        leakage_virtual_work=np.full((n, k_cases, n_el, 3), np.nan)
+        if not virtual_work
+        else _virtual_work(
             link,
             kin,
             jac,

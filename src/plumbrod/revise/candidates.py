@@ -243,7 +243,9 @@ class Screening:
             pick = np.unique([0, p // 2, p - 1])
             rows = (np.arange(k)[:, None] * p + pick[None, :]).ravel()
             sub = _subset_rows(part, rows, part.spec)
-            st = solve_statics(sub.link, self.routes, self.members, self.loads, sub.result)
+            st = solve_statics(
+                sub.link, self.routes, self.members, self.loads, sub.result, virtual_work=False
+            )
             f = st.rod_force_N[..., self.rods].reshape(k, -1, len(self.rods))
             worst_c = np.minimum(worst_c, f.min(axis=1))
             worst_t = np.maximum(worst_t, f.max(axis=1))
@@ -281,6 +283,8 @@ class _Part:
 
 
 def _subset(grid: GridSolution, designs: NDArray[np.intp]) -> GridSolution:
+    if designs.size == grid.designs:  # every candidate assembled: nothing to copy
+        return grid
     p = grid.poses
     rows = (designs[:, None] * p + np.arange(p)[None, :]).ravel()
     return GridSolution(
