@@ -18,7 +18,8 @@ from plumbrod.mechanics.analysis import analyse
 from plumbrod.mechanics.mass import mass_report
 from plumbrod.mechanics.ride import QuarterCar, mean_squares
 from plumbrod.mechanics.road import class_mean_m3, velocity_psd_m2_s
-from plumbrod.verdict.tradeoff import TradeoffStudy, study_tradeoff
+from plumbrod.verdict.tradeoff import study_tradeoff
+from plumbrod.verdict.tradeoff_results import TradeoffStudy
 
 ROOT = Path(__file__).resolve().parents[1]
 EXAMPLE = ROOT / "examples" / "hillclimb_splitter.toml"

@@ -15,7 +15,8 @@ from numpy.typing import NDArray
 
 from plumbrod.design.model import Sweeps
 from plumbrod.kinematics.drives import BodyDrive, Drive, TravelDrive
-from plumbrod.kinematics.elastic import ElasticSetup, ElasticSolution, solve_elastic
+from plumbrod.kinematics.elastic import ElasticSetup, ElasticSolution
+from plumbrod.kinematics.elastic_newton import solve_elastic
 from plumbrod.kinematics.linkage import Linkage
 from plumbrod.kinematics.solver import Solved, solve_poses, tangent
 

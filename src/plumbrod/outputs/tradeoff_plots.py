@@ -18,7 +18,7 @@ import numpy as np
 
 from plumbrod.mechanics.ride import simulate
 from plumbrod.mechanics.road import class_mean_m3, synthesise_profile
-from plumbrod.verdict.tradeoff import CASES, AxleStudy, TradeoffStudy
+from plumbrod.verdict.tradeoff_results import CASES, AxleStudy, TradeoffStudy
 
 if TYPE_CHECKING:
     from matplotlib.axes import Axes

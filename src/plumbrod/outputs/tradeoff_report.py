@@ -20,7 +20,7 @@ from typing import Any
 import numpy as np
 
 from plumbrod.outputs.cautions import CAUTION, RIDE_CAUTION
-from plumbrod.verdict.tradeoff import CASES, FIGURES, AxleStudy, CaseStudy, TradeoffStudy
+from plumbrod.verdict.tradeoff_results import CASES, FIGURES, AxleStudy, CaseStudy, TradeoffStudy
 
 __all__ = ["RIDE_CAUTION", "study_csv", "study_json", "study_text"]
 
