@@ -127,6 +127,27 @@ def support(part: Part, e: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     return kern.support_cyl(arr[0], arr[1], arr[2], arr[3], e)
 
 
+def projection_range(part: Part, e: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Largest and least of e·x over a part along unit directions e (…, 3): the support
+    values along e and minus those along -e (values only, no points)."""
+    kind, arr = part
+    if kind == "seg":
+        h0 = kern._dot(arr[0], e)
+        h1 = kern._dot(arr[1], e)
+        return np.maximum(h0, h1) + arr[2], np.minimum(h0, h1) - arr[2]
+    if kind == "prism":
+        verts = kern.prism_vertices(arr[0], arr[1], arr[2], arr[4], arr[5])
+        h = np.einsum("...vk,...k->...v", verts, e)
+        return np.max(h, axis=-1), np.min(h, axis=-1)
+    c0, axis, length, radius = arr
+    mid = kern._dot(c0, e)
+    along = length * kern._dot(axis, e)
+    perp = e - kern._dot(e, axis)[..., None] * axis
+    perp = perp - kern._dot(perp, axis)[..., None] * axis  # no cancellation near ±axis
+    rim = radius * kern._norm(perp)
+    return mid + np.maximum(along, 0.0) + rim, mid + np.minimum(along, 0.0) - rim
+
+
 def motion_keypoints(solid: Solid) -> tuple[np.ndarray, np.ndarray, np.ndarray] | None:
     """Points and scalars that bound how far any point of a moving solid travels.
 

@@ -17,20 +17,22 @@ Distance (``distance_mm``) is surface to surface, mm.
   points.  For plates and boxes the kernel's answer is certified by a separating
   plane: the gap of the two solids' projections on the line joining the points equals
   the distance.
-- Overlapping: the distance is negative, ``-depth``.  For a capsule against a convex
-  zone whose core stays outside the zone the depth is ``radius - core distance``; for
-  two capsules ``r_a + r_b - core distance``: both exact minimum translation distances.
-  Otherwise the depth is the least translation, over candidate directions, that
-  separates the projections of the two solids on that direction (separating axes).
-  Separated projections mean separated solids, so this never understates the
-  interference (it is an upper bound of the minimum translation distance).  The
-  candidates are complete, making the depth exact, for a capsule or point inside a
-  box or a convex prism, and for a plate against a box, a convex prism or a plate.
-  Against a cylinder they are the axis, radial and cross-product directions (exact for
-  a point inside); against a non-convex prism, the directions of all its convex pieces,
-  all pieces counted together.  ``point_a`` is then the point of A deepest towards B
-  along the chosen direction ``e``, and ``point_b`` the point of B nearest to
-  ``point_a + distance * e`` (where A's deepest point has to go).
+- Overlapping: the distance is negative, ``-depth``, and the depth is the minimum
+  translation distance: the length of the shortest translation of A after which the
+  two solids only touch, the least over unit directions e of h_A(e) + h_B(-e) (support
+  functions), the same in every frame.  For a capsule against a convex zone whose core
+  stays outside the zone it is ``radius - core distance``; for two capsules
+  ``r_a + r_b - core distance``.  Otherwise :mod:`plumbrod.clearance._overlap_depth`
+  takes the least over a finite set of directions that contains the minimiser (face
+  normals and edge cross products for boxes, plates, convex prisms and capsule cores;
+  against a cylinder also its axis, the radial and rim directions of the vertices and
+  the normals to the ellipses its disc makes seen along each edge), so the depth is
+  exact for every pair of convex solids.  Against a non-convex prism it is the least
+  translation, along the directions of all its convex pieces, that clears A of all
+  pieces at once: an upper bound of the minimum translation distance (it never
+  understates the interference), fixed by the solids alone.  ``point_a`` is then the
+  point of A deepest towards B along the chosen direction ``e``, and ``point_b`` the
+  point of B nearest to ``point_a + distance * e`` (where A's deepest point has to go).
 
 For separated solids, and for the exact overlaps of capsules described above,
 ``point_b - point_a = distance_mm * e`` with ``e`` the unit vector from A towards B;
@@ -51,6 +53,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from plumbrod.clearance import _distance_kernels as kern
+from plumbrod.clearance import _overlap_depth as depth_of
 from plumbrod.clearance import _solid_parts as parts
 from plumbrod.geometry.shapes import Box, Capsule, Cylinder, GeometryError, Plate, Prism, Solid
 
@@ -230,8 +233,7 @@ def _evaluate(
         dirs_kernel = e.reshape(n, p, 3)[bad]
         sub_a = (ka, tuple(arr[bad] for arr in arr_a))
         sub_b = (kb, tuple(arr[bad] for arr in arr_b))
-        x_sub = x.reshape(n, p, 3)[bad]
-        depth, e_ab, deep_a, deep_b = _overlap_depth(sub_a, sub_b, dirs_kernel, x_sub)
+        depth, e_ab, deep_a, deep_b = depth_of.overlap_depth(sub_a, sub_b, dirs_kernel)
         overlap = depth > 0.0
         idx = bad[overlap]
         out_sd[idx] = -depth[overlap]
@@ -253,107 +255,6 @@ def _crossing_normal(d1: np.ndarray, d2: np.ndarray) -> np.ndarray:
     perp, perp_ok = kern._unit(np.cross(longer, axis))
     fallback = np.where(perp_ok[:, None], perp, np.array([0.0, 0.0, 1.0]))
     return np.where(ok[:, None], normal, fallback)
-
-
-def _prism_directions(arrays: tuple[np.ndarray, ...]) -> tuple[np.ndarray, np.ndarray]:
-    """Face normals and edge directions (…, M + 1, 3) of right prisms (zero if padded)."""
-    _, axes, poly, edge_ok, _, _ = arrays
-    edge, _, normal = kern.prism_edges(poly)
-    u, v, w = axes[..., None, 0, :], axes[..., None, 1, :], axes[..., None, 2, :]
-    ok = edge_ok[..., None]
-    n3 = np.where(ok, normal[..., 0, None] * u + normal[..., 1, None] * v, 0.0)
-    e3 = np.where(ok, edge[..., 0, None] * u + edge[..., 1, None] * v, 0.0)
-    return (np.concatenate([n3, axes[..., None, 2, :]], axis=-2), np.concatenate([e3, w], axis=-2))
-
-
-def _radial(points: np.ndarray, c0: np.ndarray, axis: np.ndarray) -> np.ndarray:
-    rel = points - c0
-    return rel - np.sum(rel * axis, axis=-1, keepdims=True) * axis
-
-
-def _candidate_directions(
-    a: parts.Part, b: parts.Part, dirs_kernel: np.ndarray, x_kernel: np.ndarray
-) -> np.ndarray:
-    """Separating-axis candidates (N, K, 3) for the pairs that may overlap."""
-    ka, arr_a = a
-    kb, arr_b = b
-    n = arr_b[0].shape[0]
-    found = [dirs_kernel]
-    if kb == "prism":
-        faces_b, edges_b = _prism_directions(arr_b)  # (n, p, mb + 1, 3)
-        found.append(faces_b.reshape(n, -1, 3))
-        if ka == "seg":
-            d = (arr_a[1] - arr_a[0])[:, None, None, :]
-            found.append(np.cross(d, edges_b).reshape(n, -1, 3))
-        else:
-            faces_a, edges_a = _prism_directions(arr_a)  # (n, ma + 1, 3)
-            found.append(faces_a)
-            cross = np.cross(edges_a[:, None, :, None, :], edges_b[:, :, None, :, :])
-            found.append(cross.reshape(n, -1, 3))
-    else:  # cylinder, one piece
-        c0, axis = arr_b[0][:, 0], arr_b[1][:, 0]
-        found.append(axis[:, None])
-        if ka == "seg":
-            d = arr_a[1] - arr_a[0]
-            found.append(np.cross(d, axis)[:, None])
-            pts = np.stack([arr_a[0], arr_a[1], x_kernel[:, 0]], axis=1)
-        else:
-            faces_a, edges_a = _prism_directions(arr_a)
-            found.append(faces_a)
-            found.append(np.cross(edges_a, axis[:, None]))
-            pts = kern.prism_vertices(arr_a[0], arr_a[1], arr_a[2], arr_a[4], arr_a[5])
-        found.append(_radial(pts, c0[:, None], axis[:, None]))
-    dirs, _ = kern._unit(np.concatenate(found, axis=1))
-    return dirs
-
-
-def _overlap_depth(
-    a: parts.Part, b: parts.Part, dirs_kernel: np.ndarray, x_kernel: np.ndarray
-) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
-    """Least translation of A that separates the projections of A and of every piece of
-    B, over candidate directions (an upper bound of the interference depth).
-
-    Returns (depth (N,), e_ab (N, 3) unit from A towards B, the point of A deepest
-    along e_ab, the point of B nearest to that point moved back by the depth); depth 0
-    where some candidate separates them.
-    """
-    ka, arr_a = a
-    kb, arr_b = b
-    n, p = arr_b[0].shape[:2]
-    dirs = _candidate_directions(a, b, dirs_kernel, x_kernel)  # (n, K, 3)
-    valid = np.linalg.norm(dirs, axis=-1) > 0.5
-    a_exp = (ka, tuple(arr[:, None] for arr in arr_a))
-    a_hi, _ = parts.support(a_exp, dirs)
-    a_lo = -parts.support(a_exp, -dirs)[0]
-    b_exp = (kb, tuple(arr[:, None] for arr in arr_b))  # (n, 1, p, ...)
-    b_hi, _ = parts.support(b_exp, dirs[:, :, None, :])
-    b_lo = -parts.support(b_exp, -dirs[:, :, None, :])[0]
-    # translations t of A along the direction that keep A on piece i: (b_lo - a_hi, b_hi - a_lo)
-    f_lo = b_lo - a_hi[..., None]
-    f_hi = b_hi - a_lo[..., None]
-    lo = np.zeros(f_lo.shape[:2])
-    hi = np.zeros(f_lo.shape[:2])
-    for _ in range(p):
-        touch = (f_lo < hi[..., None]) & (f_hi > lo[..., None])
-        lo = np.minimum(lo, np.min(np.where(touch, f_lo, 0.0), axis=-1))
-        hi = np.maximum(hi, np.max(np.where(touch, f_hi, 0.0), axis=-1))
-    forward = hi <= -lo
-    depth = np.where(forward, hi, -lo)
-    depth = np.where(valid, depth, np.inf)
-    k = np.argmin(depth, axis=1)
-    rows = np.arange(n)
-    best = depth[rows, k]
-    sign = np.where(forward[rows, k], -1.0, 1.0)
-    e_ab = sign[:, None] * dirs[rows, k]
-    _, deep_a = parts.support((ka, arr_a), e_ab)
-    # the point of B nearest to where A's deepest point must go
-    target = (deep_a - best[:, None] * e_ab)[:, None, :]
-    if kb == "prism":
-        near, gap = kern.point_prism(target, *arr_b)
-    else:
-        near, gap = kern.point_cyl(target, *arr_b)
-    deep_b = near[rows, np.argmin(gap, axis=1)]
-    return best, e_ab, deep_a, deep_b
 
 
 def separation(a: Solid, b: Solid) -> Separation:
