@@ -9,7 +9,10 @@ of action, transmission angles, heave sensitivity, statics for the reserves and 
 leakage, rod mass).  Measured in one run, on one core (BLAS threads pinned to 1):
 
   * batched: ``Screening`` on N candidates at once (designs x poses batch, the
-    suspension solved once per pose, the route block per candidate);
+    suspension solved once per pose, the route block per candidate in closed form,
+    :mod:`plumbrod.kinematics.route_block`);
+  * one generation: the same on the batch the search really screens per generation of
+    the tune example (population x variables candidates);
   * one by one: the same ``Screening`` called with one candidate at a time;
   * the existing API one by one (the baseline): per candidate, ``solve_poses`` of the
     same two coarse sweeps, ``sweep_figures`` and ``solve_statics`` (at every pose of
@@ -17,7 +20,8 @@ leakage, rod mass).  Measured in one run, on one core (BLAS threads pinned to 1)
 
 Times are CPU time of this process (``time.process_time``), so a busy machine does not
 inflate them; wall times are printed beside.  The last line is
-``tune_candidates_per_s=<number>`` (batched, CPU time).
+``tune_candidates_per_s=<number>`` (batched, CPU time); ``generation_candidates_per_s``
+is the rate at the search's own batch size.
 """
 
 from __future__ import annotations
@@ -74,6 +78,9 @@ def main() -> None:
     screening(x[:8])  # warm caches
 
     cpu_b, wall_b = measure(lambda: screening(x), args.repeats)
+    gen = spec.population * len(spec.variables)
+    gen_calls = max(1, args.batch // gen)
+    cpu_g, wall_g = measure(lambda: [screening(x[:gen]) for _ in range(gen_calls)], args.repeats)
     single = x[: args.single]
     cpu_1, wall_1 = measure(lambda: [screening(row[None]) for row in single], args.repeats)
 
@@ -97,6 +104,7 @@ def main() -> None:
     agree = float(np.abs(batched.constraints[: args.single] - ones).max())
 
     rate_b, rate_1 = args.batch / cpu_b, args.single / cpu_1
+    rate_g = gen * gen_calls / cpu_g
     rate_api = args.single / cpu_api
     print(
         f"tune example: {len(spec.variables)} variables, screening "
@@ -106,6 +114,10 @@ def main() -> None:
     print(
         f"batched, {args.batch} candidates: {cpu_b:.3f} s CPU ({wall_b:.3f} s wall), "
         f"{rate_b:,.0f} candidates/s"
+    )
+    print(
+        f"one generation ({gen} candidates) x {gen_calls}: {cpu_g:.3f} s CPU "
+        f"({wall_g:.3f} s wall), {rate_g:,.0f} candidates/s"
     )
     print(
         f"one by one, {args.single} candidates: {cpu_1:.3f} s CPU ({wall_1:.3f} s wall), "
@@ -118,6 +130,7 @@ def main() -> None:
     print(f"largest difference of a constraint, batched vs one by one: {agree:.1e}")
     print(f"speedup_vs_one_by_one={rate_b / rate_1:.1f}")
     print(f"speedup_vs_existing_api={rate_b / rate_api:.1f}")
+    print(f"generation_candidates_per_s={rate_g:.0f}")
     print(f"existing_api_candidates_per_s={rate_api:.0f}")
     print(f"one_by_one_candidates_per_s={rate_1:.0f}")
     print(f"tune_candidates_per_s={rate_b:.0f}")
